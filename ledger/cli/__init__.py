@@ -1,0 +1,84 @@
+"""The ``wbledger`` command line: thin adapters over the library.
+
+Each command parses its arguments, makes one call into ``ledger.store`` / ``ledger.typedata`` /
+``ledger.core``, and renders the result with ``ledger.report``. Errors are translated once, here:
+a :class:`ledger.errors.LedgerError` becomes ``Error: …`` on stderr and its exit code (2 for bad
+input). Heavy libraries (SQLAlchemy, numpy) are imported inside the commands, so that
+``wbledger --help`` starts quickly.
+"""
+
+from __future__ import annotations
+
+import sys
+
+import typer
+from typer.core import TyperGroup
+
+from ledger.cli import common
+
+__all__ = ["app", "main"]
+
+
+class _LedgerGroup(TyperGroup):
+    """Top-level group: turns LedgerError into one line on stderr and its exit code."""
+
+    def invoke(self, ctx):
+        try:
+            return super().invoke(ctx)
+        except Exception as exc:  # noqa: BLE001 - re-raised unless it is ours
+            from ledger.errors import LedgerError
+
+            if isinstance(exc, LedgerError):
+                common.fail(str(exc), exc.exit_code)
+            raise
+
+
+app = typer.Typer(
+    cls=_LedgerGroup,
+    no_args_is_help=True,
+    add_completion=False,
+    pretty_exceptions_enable=False,
+    help="A weight-and-balance ledger for aircraft and road vehicles: empty-weight history, "
+    "loading sheets checked against the CG envelope, fixes, and loaded inertia.",
+)
+
+
+@app.callback()
+def _root(
+    ctx: typer.Context,
+    db: str = typer.Option(
+        None,
+        "--db",
+        metavar="URL",
+        help="Database URL (SQLAlchemy form). Default: $WBLEDGER_DB, else a SQLite file in "
+        "your user data directory.",
+    ),
+) -> None:
+    ctx.obj = common.State(db_url=db)
+
+
+def _register() -> None:
+    from ledger.cli import dbcmds, types, vehicles
+
+    for module in (dbcmds, types, vehicles):
+        module.register(app)
+    # Groups added by later modules register themselves the same way.
+    import importlib
+
+    for name in common.OPTIONAL_MODULES:
+        try:
+            module = importlib.import_module(f"ledger.cli.{name}")
+        except ModuleNotFoundError as exc:
+            if exc.name != f"ledger.cli.{name}":
+                raise
+            continue
+        module.register(app)
+
+
+_register()
+
+
+def main() -> None:
+    """Entry point of the ``wbledger`` console script and ``python -m ledger``."""
+    app(prog_name="wbledger")
+    sys.exit(0)

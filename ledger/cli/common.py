@@ -1,0 +1,64 @@
+"""What every command shares: the database handle, output in text or JSON, and failing cleanly."""
+
+from __future__ import annotations
+
+import json
+import sys
+from dataclasses import dataclass, field
+from typing import Any, Callable, NoReturn
+
+import typer
+
+#: Command modules that register themselves when present (one module per group of commands).
+OPTIONAL_MODULES = ("maintenance", "configs", "sheets", "inertia", "ground", "demo")
+
+
+@dataclass
+class State:
+    """Per-invocation state carried in ``ctx.obj``."""
+
+    db_url: str | None = None
+    _engine: Any = field(default=None, repr=False)
+
+    def engine(self, *, check: bool = True):
+        """The engine for this invocation; refuses an uninitialised or outdated schema."""
+        if self._engine is None:
+            from ledger.store.db import make_engine
+
+            self._engine = make_engine(self.db_url)
+        if check:
+            from ledger.store.db import check_schema
+
+            check_schema(self._engine)
+        return self._engine
+
+
+def state(ctx: typer.Context) -> State:
+    obj = ctx.find_root().obj
+    if obj is None:  # called without the root callback (library use)
+        obj = ctx.find_root().obj = State()
+    return obj
+
+
+def fail(message: str, code: int = 2) -> NoReturn:
+    """Print ``Error: message`` on stderr and exit with ``code``."""
+    typer.echo(f"Error: {message}", err=True)
+    raise typer.Exit(code)
+
+
+def console():
+    """A rich console for terminal output (imported only when a command prints)."""
+    from rich.console import Console
+
+    return Console(highlight=False, soft_wrap=False)
+
+
+def emit(data: Any, render: Callable[[Any], None], as_json: bool) -> None:
+    """Print ``data`` as JSON (``--json``) or through ``render`` for the terminal."""
+    if as_json:
+        typer.echo(json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False))
+    else:
+        render(data)
+
+
+JSON_OPTION = typer.Option(False, "--json", help="Print JSON (explicit unit names) instead of text.")

@@ -1,0 +1,192 @@
+"""Vehicle types (with their revisions) and vehicles.
+
+A type is known by its name; each import of a type file whose content differs from every earlier
+revision makes a new revision. A vehicle belongs to a type and is computed with the type's newest
+revision unless a caller asks for another; whatever is saved (a loading sheet) keeps the id of
+the revision it used.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import json
+import re
+from dataclasses import dataclass
+
+from sqlalchemy import func, select
+from sqlalchemy.orm import Session
+
+from ledger.errors import ConflictError, InputError, NotFoundError
+from ledger.store.models import TypeRevisionRow, VehicleRow, VehicleTypeRow
+
+__all__ = [
+    "ImportResult",
+    "import_type",
+    "list_types",
+    "type_revision",
+    "load_type",
+    "add_vehicle",
+    "get_vehicle",
+    "vehicle_type",
+    "REGISTRATION_PATTERN",
+]
+
+REGISTRATION_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9-]{0,39}$")
+
+
+def _now() -> dt.datetime:
+    return dt.datetime.now(dt.timezone.utc)
+
+
+@dataclass(frozen=True)
+class ImportResult:
+    name: str
+    revision: int
+    created: bool
+    content_sha256: str
+
+
+def import_type(session: Session, vtype, source_name: str, source_text: str) -> ImportResult:
+    """Store ``vtype`` (a parsed :class:`ledger.typedata.VehicleType`) as a new revision.
+
+    Importing content identical to an existing revision of the same type creates nothing and
+    returns that revision.
+    """
+    digest = vtype.content_hash()
+    type_row = session.scalar(select(VehicleTypeRow).where(VehicleTypeRow.name == vtype.name))
+    if type_row is None:
+        type_row = VehicleTypeRow(name=vtype.name, created_at=_now())
+        session.add(type_row)
+        session.flush()
+    existing = session.scalar(
+        select(TypeRevisionRow).where(
+            TypeRevisionRow.type_id == type_row.id, TypeRevisionRow.content_sha256 == digest
+        )
+    )
+    if existing is not None:
+        return ImportResult(vtype.name, existing.revision, False, digest)
+    last = session.scalar(
+        select(func.max(TypeRevisionRow.revision)).where(TypeRevisionRow.type_id == type_row.id)
+    )
+    row = TypeRevisionRow(
+        type_id=type_row.id,
+        revision=(last or 0) + 1,
+        content_sha256=digest,
+        source_name=source_name,
+        source_text=source_text,
+        spec_json=json.dumps(vtype.to_dict(), sort_keys=True, allow_nan=False),
+        imported_at=_now(),
+    )
+    session.add(row)
+    session.flush()
+    return ImportResult(vtype.name, row.revision, True, digest)
+
+
+def list_types(session: Session) -> list[dict]:
+    """Every type with its newest revision and the number of vehicles of that type."""
+    newest = (
+        select(TypeRevisionRow.type_id, func.max(TypeRevisionRow.revision).label("revision"))
+        .group_by(TypeRevisionRow.type_id)
+        .subquery()
+    )
+    counts = (
+        select(VehicleRow.type_id, func.count(VehicleRow.id).label("vehicles"))
+        .group_by(VehicleRow.type_id)
+        .subquery()
+    )
+    rows = session.execute(
+        select(
+            VehicleTypeRow.name,
+            newest.c.revision,
+            TypeRevisionRow.spec_json,
+            TypeRevisionRow.imported_at,
+            func.coalesce(counts.c.vehicles, 0),
+        )
+        .join(newest, newest.c.type_id == VehicleTypeRow.id)
+        .join(
+            TypeRevisionRow,
+            (TypeRevisionRow.type_id == VehicleTypeRow.id)
+            & (TypeRevisionRow.revision == newest.c.revision),
+        )
+        .outerjoin(counts, counts.c.type_id == VehicleTypeRow.id)
+        .order_by(VehicleTypeRow.name)
+    ).all()
+    out = []
+    for name, revision, spec_json, imported_at, vehicles in rows:
+        spec = json.loads(spec_json)
+        out.append(
+            {
+                "name": name,
+                "revision": revision,
+                "kind": spec.get("kind"),
+                "title": spec.get("title"),
+                "imported_at": imported_at.isoformat(),
+                "vehicles": vehicles,
+            }
+        )
+    return out
+
+
+def type_revision(session: Session, name: str, revision: int | None = None) -> TypeRevisionRow:
+    """The row of revision ``revision`` (default: newest) of type ``name``."""
+    type_row = session.scalar(select(VehicleTypeRow).where(VehicleTypeRow.name == name))
+    if type_row is None:
+        known = session.scalars(select(VehicleTypeRow.name).order_by(VehicleTypeRow.name)).all()
+        hint = (f"Known types: {', '.join(known)}" if known
+                else "Import one with `wbledger type import FILE`")
+        raise NotFoundError("vehicle type", name, hint)
+    query = select(TypeRevisionRow).where(TypeRevisionRow.type_id == type_row.id)
+    if revision is None:
+        query = query.order_by(TypeRevisionRow.revision.desc()).limit(1)
+    else:
+        query = query.where(TypeRevisionRow.revision == revision)
+    row = session.scalar(query)
+    if row is None:
+        raise NotFoundError(f"revision of type {name!r}", revision)
+    return row
+
+
+def load_type(row: TypeRevisionRow):
+    """Rebuild the :class:`ledger.typedata.VehicleType` stored in a revision row."""
+    from ledger.typedata import VehicleType
+
+    return VehicleType.from_dict(json.loads(row.spec_json))
+
+
+def add_vehicle(session: Session, registration: str, type_name: str, *,
+                serial: str | None = None, note: str | None = None) -> VehicleRow:
+    """Add a vehicle of an imported type."""
+    if not REGISTRATION_PATTERN.match(registration or ""):
+        raise InputError("registration", registration,
+                         "1 to 40 letters, digits or '-', starting with a letter or digit")
+    rev = type_revision(session, type_name)
+    if session.scalar(select(VehicleRow.id).where(VehicleRow.registration == registration)):
+        raise ConflictError(f"vehicle {registration!r} already exists; "
+                            "see it with `wbledger vehicle show " + registration + "`")
+    row = VehicleRow(registration=registration, type_id=rev.type_id, serial=serial, note=note,
+                     created_at=_now())
+    session.add(row)
+    session.flush()
+    return row
+
+
+def get_vehicle(session: Session, registration: str, *, lock: bool = False) -> VehicleRow:
+    """The vehicle ``registration``; with ``lock`` its row is locked (PostgreSQL FOR UPDATE)."""
+    query = select(VehicleRow).where(VehicleRow.registration == registration)
+    if lock:
+        query = query.with_for_update()
+    row = session.scalar(query)
+    if row is None:
+        known = session.scalars(select(VehicleRow.registration).order_by(VehicleRow.registration)
+                                .limit(12)).all()
+        hint = (f"Known vehicles: {', '.join(known)}" if known
+                else "Add one with `wbledger vehicle add REG --type NAME`")
+        raise NotFoundError("vehicle", registration, hint)
+    return row
+
+
+def vehicle_type(session: Session, vehicle: VehicleRow) -> tuple[TypeRevisionRow, object]:
+    """The newest revision row of the vehicle's type and the parsed type."""
+    name = session.scalar(select(VehicleTypeRow.name).where(VehicleTypeRow.id == vehicle.type_id))
+    row = type_revision(session, name)
+    return row, load_type(row)

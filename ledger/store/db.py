@@ -1,0 +1,239 @@
+"""Engines, sessions and schema migrations.
+
+The database is any SQLAlchemy URL: by default a SQLite file in the platform's user data
+directory; ``--db URL`` or the ``WBLEDGER_DB`` variable choose another (for a fleet, a shared
+PostgreSQL server: ``postgresql+psycopg://user@host/dbname``).
+
+SQLite runs with foreign keys on, the WAL journal, ``synchronous=FULL`` and a busy timeout, and
+every transaction starts with ``BEGIN IMMEDIATE`` so that concurrent writers queue instead of
+failing half-way. Migrations are Alembic scripts shipped inside the package
+(``ledger._migrations``, the top-level ``migrations/`` folder of the checkout) and run from code
+on the caller's connection. A database whose schema is behind this version is refused with a
+message naming ``wbledger db upgrade``; upgrading a SQLite file first copies it beside itself.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import datetime as dt
+import os
+from collections.abc import Iterator
+from pathlib import Path
+
+from sqlalchemy import Engine, create_engine, event, inspect
+from sqlalchemy.engine import Connection, make_url
+from sqlalchemy.orm import Session, sessionmaker
+
+from ledger.errors import InputError, SchemaError
+
+__all__ = [
+    "ENV_VAR",
+    "default_url",
+    "resolve_url",
+    "make_engine",
+    "session_scope",
+    "migrations_dir",
+    "alembic_config",
+    "head_revision",
+    "current_revision",
+    "check_schema",
+    "upgrade",
+    "downgrade",
+    "init_db",
+]
+
+ENV_VAR = "WBLEDGER_DB"
+BUSY_TIMEOUT_MS = 60_000
+
+
+def default_url() -> str:
+    """The SQLite file in the user's data directory (created on first use)."""
+    import platformdirs
+
+    base = Path(platformdirs.user_data_dir("wbledger", appauthor=False))
+    return f"sqlite:///{base / 'ledger.sqlite3'}"
+
+
+def resolve_url(url: str | None = None) -> str:
+    """``url`` if given, else ``$WBLEDGER_DB``, else :func:`default_url`."""
+    return url or os.environ.get(ENV_VAR) or default_url()
+
+
+def _sqlite_pragmas(dbapi_connection, _record) -> None:
+    # Let SQLAlchemy's "begin" event issue BEGIN IMMEDIATE instead of pysqlite's deferred BEGIN.
+    dbapi_connection.isolation_level = None
+    cur = dbapi_connection.cursor()
+    cur.execute("PRAGMA foreign_keys = ON")
+    cur.execute(f"PRAGMA busy_timeout = {BUSY_TIMEOUT_MS}")
+    cur.execute("PRAGMA journal_mode = WAL")
+    cur.execute("PRAGMA synchronous = FULL")
+    cur.close()
+
+
+def _sqlite_begin(conn: Connection) -> None:
+    conn.exec_driver_sql("BEGIN IMMEDIATE")
+
+
+def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
+    """Create an engine for ``url`` (see :func:`resolve_url`) with the ledger's settings.
+
+    For a SQLite file the parent directory is created.
+    """
+    url = resolve_url(url)
+    try:
+        parsed = make_url(url)
+    except Exception:  # sqlalchemy.exc.ArgumentError and friends
+        raise InputError("--db", url, "not a database URL; use sqlite:///PATH or "
+                         "postgresql+psycopg://USER@HOST/DBNAME") from None
+    if parsed.get_backend_name() == "sqlite":
+        database = parsed.database
+        if database and database != ":memory:" and not database.startswith("file:"):
+            Path(database).expanduser().parent.mkdir(parents=True, exist_ok=True)
+        engine = create_engine(
+            parsed, echo=echo, connect_args={"timeout": BUSY_TIMEOUT_MS / 1000}
+        )
+        event.listen(engine, "connect", _sqlite_pragmas)
+        event.listen(engine, "begin", _sqlite_begin)
+        return engine
+    try:
+        return create_engine(parsed, echo=echo, pool_pre_ping=True)
+    except ModuleNotFoundError as exc:
+        raise InputError("--db", url, f"needs the database driver {exc.name!r}",
+                         hint="Install it, e.g. pip install 'wbledger[postgres]'") from None
+
+
+@contextlib.contextmanager
+def session_scope(engine: Engine) -> Iterator[Session]:
+    """A session whose transaction commits on success and rolls back on any error."""
+    factory = sessionmaker(engine, expire_on_commit=False)
+    with factory() as session, session.begin():
+        yield session
+
+
+# --- migrations -------------------------------------------------------------------------------
+
+def migrations_dir() -> Path:
+    """Folder of the Alembic scripts: the ``ledger._migrations`` package, wherever installed."""
+    import importlib.util
+
+    spec = importlib.util.find_spec("ledger._migrations")
+    if spec is not None and spec.submodule_search_locations:
+        return Path(next(iter(spec.submodule_search_locations)))
+    # A plain source tree on sys.path without installation: the checkout's migrations/.
+    return Path(__file__).resolve().parents[2] / "migrations"
+
+
+def alembic_config(connection: Connection | None = None):
+    """An Alembic ``Config`` built in code; shares ``connection`` with the migration run."""
+    from alembic.config import Config
+
+    cfg = Config()
+    cfg.set_main_option("script_location", str(migrations_dir()))
+    if connection is not None:
+        cfg.attributes["connection"] = connection
+    return cfg
+
+
+def head_revision() -> str:
+    """The newest migration this version of wbledger knows."""
+    from alembic.script import ScriptDirectory
+
+    return ScriptDirectory.from_config(alembic_config()).get_current_head()
+
+
+def current_revision(connection: Connection) -> str | None:
+    """The migration the database is at, or ``None`` for a database never initialised."""
+    from alembic.runtime.migration import MigrationContext
+
+    return MigrationContext.configure(connection).get_current_revision()
+
+
+def _describe(url: str) -> str:
+    return make_url(url).render_as_string(hide_password=True)
+
+
+def check_schema(engine: Engine) -> None:
+    """Refuse a database that is not initialised or not at this version's schema."""
+    with engine.connect() as conn:
+        current = current_revision(conn)
+        conn.rollback()
+    head = head_revision()
+    if current == head:
+        return
+    where = _describe(str(engine.url))
+    if current is None:
+        raise SchemaError(
+            f"the database {where} has no wbledger schema; run `wbledger init` first"
+        )
+    from alembic.script import ScriptDirectory
+
+    known = {s.revision for s in ScriptDirectory.from_config(alembic_config()).walk_revisions()}
+    if current not in known:
+        raise SchemaError(
+            f"the database {where} is at schema {current}, newer than this wbledger knows "
+            f"(head {head}); upgrade wbledger itself"
+        )
+    raise SchemaError(
+        f"the database {where} is at schema {current}, behind this wbledger ({head}); "
+        "run `wbledger db upgrade` (a SQLite file is backed up first)"
+    )
+
+
+def _backup_sqlite(engine: Engine) -> Path | None:
+    database = engine.url.database
+    if engine.url.get_backend_name() != "sqlite" or not database or database == ":memory:":
+        return None
+    path = Path(database).expanduser()
+    if not path.exists() or path.stat().st_size == 0:
+        return None
+    stamp = dt.datetime.now(dt.timezone.utc).strftime("%Y%m%dT%H%M%SZ")
+    backup = path.with_name(f"{path.name}.{stamp}.bak")
+    # The SQLite online-backup API copies a consistent image even with a WAL file beside it.
+    import sqlite3
+
+    src = sqlite3.connect(path)
+    try:
+        dst = sqlite3.connect(backup)
+        with dst:
+            src.backup(dst)
+        dst.close()
+    finally:
+        src.close()
+    return backup
+
+
+def upgrade(engine: Engine, revision: str = "head") -> tuple[str | None, str, Path | None]:
+    """Bring the schema to ``revision``. Returns (from, to, backup file or None).
+
+    A SQLite file that already holds a schema behind the target is copied first.
+    """
+    from alembic import command
+
+    with engine.connect() as conn:
+        before = current_revision(conn)
+        conn.rollback()
+    target = head_revision() if revision == "head" else revision
+    backup = None
+    if before is not None and before != target:
+        backup = _backup_sqlite(engine)
+    with engine.begin() as conn:
+        command.upgrade(alembic_config(conn), revision)
+    return before, target, backup
+
+
+def downgrade(engine: Engine, revision: str = "base") -> None:
+    """Take the schema down to ``revision`` (tests and emergencies)."""
+    from alembic import command
+
+    with engine.begin() as conn:
+        command.downgrade(alembic_config(conn), revision)
+
+
+def init_db(engine: Engine) -> tuple[str | None, str, Path | None]:
+    """Create the schema in a new database, or upgrade an existing one."""
+    return upgrade(engine)
+
+
+def table_names(engine: Engine) -> list[str]:
+    """Names of the tables in the database (diagnostics)."""
+    return sorted(inspect(engine).get_table_names())

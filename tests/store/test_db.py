@@ -1,0 +1,121 @@
+"""Schema migrations and the database settings, on SQLite and PostgreSQL."""
+
+from __future__ import annotations
+
+import sqlite3
+
+import pytest
+from alembic import command
+from alembic.autogenerate import compare_metadata
+from alembic.runtime.migration import MigrationContext
+from sqlalchemy import inspect, text
+
+from ledger.errors import SchemaError
+from ledger.store.db import (
+    alembic_config,
+    check_schema,
+    current_revision,
+    downgrade,
+    head_revision,
+    make_engine,
+    upgrade,
+)
+from ledger.store.models import Base
+
+TABLES = {"vehicle_types", "type_revisions", "vehicles", "ledger_entries", "configurations",
+          "loading_sheets", "alembic_version"}
+
+
+def test_upgrade_downgrade_upgrade(db_url):
+    eng = make_engine(db_url)
+    try:
+        upgrade(eng)
+        assert TABLES <= set(inspect(eng).get_table_names())
+        downgrade(eng, "base")
+        assert set(inspect(eng).get_table_names()) <= {"alembic_version"}
+        with eng.connect() as conn:
+            assert current_revision(conn) is None
+        upgrade(eng)
+        with eng.connect() as conn:
+            assert current_revision(conn) == head_revision()
+        check_schema(eng)  # does not raise
+    finally:
+        eng.dispose()
+
+
+def test_models_and_migrations_agree(engine):
+    # Alembic's own comparison (what `alembic check` runs): no difference may remain.
+    with engine.connect() as conn:
+        diff = compare_metadata(MigrationContext.configure(conn, opts={"compare_type": True}),
+                                Base.metadata)
+    assert diff == []
+    with engine.connect() as conn:
+        command.check(alembic_config(conn))
+
+
+def test_uninitialised_database_is_refused(sqlite_url):
+    eng = make_engine(sqlite_url)
+    with pytest.raises(SchemaError) as err:
+        check_schema(eng)
+    assert "has no wbledger schema; run `wbledger init` first" in str(err.value)
+
+
+def test_newer_schema_is_refused(sqlite_url):
+    eng = make_engine(sqlite_url)
+    upgrade(eng)
+    with eng.begin() as conn:
+        conn.execute(text("UPDATE alembic_version SET version_num = '9999future'"))
+    with pytest.raises(SchemaError) as err:
+        check_schema(eng)
+    assert "is at schema 9999future, newer than this wbledger knows" in str(err.value)
+    eng.dispose()
+
+
+def test_older_schema_is_refused_then_upgraded_with_a_backup(tmp_path):
+    path = tmp_path / "ledger.sqlite3"
+    eng = make_engine(f"sqlite:///{path}")
+    upgrade(eng, "0001")  # a file written by an older wbledger: only the first migration
+    with eng.begin() as conn:
+        conn.execute(text("INSERT INTO vehicle_types (name, created_at) "
+                          "VALUES ('OLD-1', '2026-01-01 00:00:00')"))
+    with pytest.raises(SchemaError) as err:
+        check_schema(eng)
+    assert str(err.value).endswith(
+        f"is at schema 0001, behind this wbledger ({head_revision()}); run `wbledger db upgrade` "
+        "(a SQLite file is backed up first)")
+    before, after, backup = upgrade(eng)
+    assert (before, after) == ("0001", head_revision())
+    assert backup is not None and backup.parent == path.parent
+    con = sqlite3.connect(backup)  # the copy is the file as it was before the upgrade
+    assert con.execute("SELECT version_num FROM alembic_version").fetchone() == ("0001",)
+    assert con.execute("SELECT name FROM vehicle_types").fetchone() == ("OLD-1",)
+    con.close()
+    check_schema(eng)
+    with eng.connect() as conn:  # data kept across the upgrade
+        assert conn.execute(text("SELECT name FROM vehicle_types")).scalar() == "OLD-1"
+    eng.dispose()
+
+
+def test_upgrade_at_head_writes_no_backup(sqlite_url):
+    eng = make_engine(sqlite_url)
+    upgrade(eng)
+    assert upgrade(eng)[2] is None
+    eng.dispose()
+
+
+def test_sqlite_settings(sqlite_url):
+    eng = make_engine(sqlite_url)
+    with eng.connect() as conn:
+        assert conn.exec_driver_sql("PRAGMA foreign_keys").scalar() == 1
+        assert conn.exec_driver_sql("PRAGMA journal_mode").scalar() == "wal"
+        assert conn.exec_driver_sql("PRAGMA synchronous").scalar() == 2  # FULL
+        assert conn.exec_driver_sql("PRAGMA busy_timeout").scalar() == 60000
+    eng.dispose()
+
+
+def test_bad_url_is_an_input_error():
+    from ledger.errors import InputError
+
+    with pytest.raises(InputError) as err:
+        make_engine("not a url at all")
+    assert str(err.value).startswith("--db = 'not a url at all': not a database URL")
