@@ -62,3 +62,20 @@ def emit(data: Any, render: Callable[[Any], None], as_json: bool) -> None:
 
 
 JSON_OPTION = typer.Option(False, "--json", help="Print JSON (explicit unit names) instead of text.")
+
+
+def actor(by: str | None) -> str:
+    """Who records an entry: ``--by``, else ``$WBLEDGER_USER``, else the login name."""
+    import getpass
+    import os
+
+    name = by or os.environ.get("WBLEDGER_USER")
+    if not name:
+        try:
+            name = getpass.getuser()
+        except Exception:  # noqa: BLE001 - no login name in some containers
+            name = "unknown"
+    return name
+
+
+BY_OPTION = typer.Option(None, "--by", help="Who records this (default: $WBLEDGER_USER or login).")
