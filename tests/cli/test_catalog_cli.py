@@ -1,0 +1,90 @@
+"""`wbledger init`, `type …` and `vehicle add` through the CLI, on SQLite and PostgreSQL."""
+
+from __future__ import annotations
+
+import json
+
+from tests.conftest import DEMO_FLEET
+
+P4 = DEMO_FLEET / "kv-p4.toml"
+
+
+def _init(cli):
+    res = cli("init")
+    assert res.exit_code == 0, res.output
+    return res
+
+
+def test_init_then_import_list_show(cli):
+    res = _init(cli)
+    assert "Schema empty -> 0002." in res.stdout
+    res = cli("type", "import", str(P4))
+    assert res.exit_code == 0, res.output
+    assert res.stdout.strip() == f"{P4}: type KV-P4 imported as revision 1"
+    # The same content again is recognised, not a new revision.
+    res = cli("type", "import", str(P4))
+    assert res.stdout.strip() == f"{P4}: type KV-P4 unchanged, already revision 1"
+    data = json.loads(cli("type", "list", "--json").stdout)
+    assert [(t["name"], t["revision"], t["kind"], t["vehicles"]) for t in data] == [
+        ("KV-P4", 1, "airplane", 0)]
+    doc = json.loads(cli("type", "show", "KV-P4", "--json").stdout)
+    assert doc["revision"] == 1 and doc["spec"]["name"] == "KV-P4"
+    # Explicit unit names in the JSON: SI keys, e.g. max_takeoff_kg (2450 lb, NIST SP 811).
+    assert abs(doc["spec"]["limits"]["max_takeoff_kg"] - 2450 * 0.45359237) < 1e-9
+    text = cli("type", "show", "KV-P4").stdout
+    assert "max take-off 2450 lb" in text
+
+
+def test_changed_type_file_makes_a_new_revision(cli, tmp_path):
+    _init(cli)
+    cli("type", "import", str(P4))
+    changed = tmp_path / "p4-changed.toml"
+    changed.write_text(P4.read_text().replace('max_takeoff = "2450 lb"', 'max_takeoff = "2400 lb"')
+                       if 'max_takeoff = "2450 lb"' in P4.read_text()
+                       else P4.read_text() + "\n# a comment changes the source, not the content\n")
+    res = cli("type", "import", str(changed))
+    assert res.exit_code == 0
+    first = json.loads(cli("type", "show", "KV-P4", "--revision", "1", "--json").stdout)
+    newest = json.loads(cli("type", "show", "KV-P4", "--json").stdout)
+    if "revision 2" in res.stdout:
+        assert newest["revision"] == 2
+        assert newest["content_sha256"] != first["content_sha256"]
+        assert newest["spec"]["limits"]["max_takeoff_kg"] < first["spec"]["limits"]["max_takeoff_kg"]
+    else:  # only a comment changed: same content, same revision
+        assert newest["revision"] == 1
+
+
+def test_bad_type_file_writes_nothing(cli, tmp_path):
+    _init(cli)
+    bad = tmp_path / "bad.toml"
+    bad.write_text(P4.read_text() + "\n[oops\n")
+    res = cli("type", "import", str(P4), str(bad))
+    assert res.exit_code == 2
+    assert res.stderr.startswith(f"Error: {bad}")
+    assert len(res.stderr.strip().splitlines()) == 1
+    # The good file given first was not imported either: all files are checked before writing.
+    assert json.loads(cli("type", "list", "--json").stdout) == []
+
+
+def test_vehicle_add_errors(cli):
+    _init(cli)
+    res = cli("vehicle", "add", "KV-101", "--type", "NOPE")
+    assert res.exit_code == 2
+    assert res.stderr.strip() == ("Error: no vehicle type 'NOPE'. "
+                                  "Import one with `wbledger type import FILE`")
+    cli("type", "import", str(P4))
+    assert cli("vehicle", "add", "KV-101", "--type", "KV-P4").exit_code == 0
+    res = cli("vehicle", "add", "KV-101", "--type", "KV-P4")
+    assert res.exit_code == 2
+    assert res.stderr.strip() == ("Error: vehicle 'KV-101' already exists; "
+                                  "see it with `wbledger vehicle show KV-101`")
+    res = cli("vehicle", "add", "bad reg!", "--type", "KV-P4")
+    assert res.exit_code == 2
+    assert res.stderr.strip() == ("Error: registration = 'bad reg!': 1 to 40 letters, digits or "
+                                  "'-', starting with a letter or digit")
+
+
+def test_commands_refuse_an_uninitialised_database(cli):
+    res = cli("type", "list")
+    assert res.exit_code == 2
+    assert "has no wbledger schema; run `wbledger init` first" in res.stderr
