@@ -44,6 +44,14 @@ from pathlib import Path
 
 from ledger.errors import ConflictError, InputError, NotFoundError
 
+
+class _Missing:
+    def __str__(self) -> str:
+        return "(missing)"
+
+
+MISSING = _Missing()
+
 __all__ = [
     "FORMAT",
     "RULES_ENV",
@@ -157,7 +165,7 @@ def _qty(table: dict, key: str, where: str, dimension: str, source: str,
         if not required:
             return None
         example = "'20000 lb'" if dimension == "mass" else "'96 in'"
-        raise InputError(field, None, f"a {dimension} with its unit, e.g. {example}",
+        raise InputError(field, MISSING, f"a {dimension} with its unit, e.g. {example}",
                          source=source)
     value = table[key]
     if isinstance(value, (int, float)) and not isinstance(value, bool):
@@ -178,7 +186,7 @@ def _table(data: dict, key: str, keys: tuple[str, ...], source: str,
     raw = data.get(key)
     if raw is None:
         if required:
-            raise InputError(key, None, f"a table [{key}] with " + ", ".join(keys),
+            raise InputError(key, MISSING, f"a table [{key}] with " + ", ".join(keys),
                              source=source)
         return {}
     if not isinstance(raw, dict):

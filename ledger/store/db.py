@@ -125,9 +125,13 @@ def migrations_dir() -> Path:
 
 def alembic_config(connection: Connection | None = None):
     """An Alembic ``Config`` built in code; shares ``connection`` with the migration run."""
+    import sys
+
     from alembic.config import Config
 
-    cfg = Config()
+    # Alembic's default stdout is bound when alembic is first imported; pass the current one so
+    # that a redirected or captured stream from an earlier call is never written to.
+    cfg = Config(stdout=sys.stdout)
     cfg.set_main_option("script_location", str(migrations_dir()))
     if connection is not None:
         cfg.attributes["connection"] = connection
