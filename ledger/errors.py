@@ -22,6 +22,7 @@ __all__ = [
     "ConflictError",
     "SchemaError",
     "ChainError",
+    "CorrectionError",
 ]
 
 
@@ -141,3 +142,7 @@ class ChainError(LedgerError):
     """A ledger hash chain does not verify."""
 
     exit_code = 1
+
+
+class CorrectionError(InputError):
+    """A proposed fix cannot work (ballast on the wrong side of a limit, no room under a limit)."""
