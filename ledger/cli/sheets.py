@@ -1,0 +1,278 @@
+"""``wbledger sheet …`` and ``wbledger check``: loading sheets, saved sheets, quick checks.
+
+::
+
+    wbledger sheet PLAN.toml [--save] [--json] [--pdf FILE] [--svg FILE] [--width N]
+    wbledger sheet REG --person pilot=82kg --fuel "main=30 USgal" --trip "20 USgal" …
+    wbledger sheet amend ID --cargo "baggage=25 lb" [--save is implied]
+    wbledger sheet show ID [--json] [--pdf FILE] [--svg FILE]
+    wbledger sheet list [REG] [--json]
+    wbledger check (PLAN.toml | REG …) [--json]      exit 0 in limits, 1 out, 2 bad input
+
+The first argument of ``sheet`` and ``check`` is a plan file (a path that exists or ends in
+``.toml``) or a registration; quick options add to or change the plan (``docs/plan-format.md``).
+A sheet out of limits is printed with its fixes and exits with code 1; bad input exits with
+code 2 and writes nothing.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import typer
+from typer.core import TyperGroup
+
+from ledger.cli import common
+
+__all__ = ["register", "sheet_app"]
+
+
+class _SheetGroup(TyperGroup):
+    """``wbledger sheet PLAN …`` runs ``wbledger sheet prepare PLAN …``."""
+
+    def parse_args(self, ctx, args):
+        if args and args[0] not in self.commands and args[0] not in ("--help", "-h"):
+            args = ["prepare", *args]
+        return super().parse_args(ctx, args)
+
+
+sheet_app = typer.Typer(
+    cls=_SheetGroup, no_args_is_help=True,
+    help="Loading sheets: prepare one from a plan (`wbledger sheet PLAN`), save, amend for a "
+         "last-minute change, show and list saved sheets.")
+
+
+def register(app: typer.Typer) -> None:
+    app.add_typer(sheet_app, name="sheet")
+    app.command("check")(check)
+
+
+# --- shared options ----------------------------------------------------------------------------
+
+PLAN_ARG = typer.Argument(..., metavar="PLAN|REG",
+                          help="A plan file (TOML), or a registration for a quick plan given "
+                               "by the options.")
+PERSON = typer.Option([], "--person", metavar="SEAT=MASS",
+                      help="A person: SEAT=MASS ('pilot=82 kg'), or SEAT=CLASS for a standard "
+                           "mass (adult, child, flight_crew, cabin_crew, standard). Repeat for "
+                           "several people; a seat named here replaces the plan's.")
+VACATE = typer.Option([], "--vacate", metavar="SEAT", help="Empty a seat of the plan.")
+CARGO = typer.Option([], "--cargo", metavar="STATION=MASS",
+                     help="Cargo at a station ('baggage=40 lb'); replaces the plan's cargo "
+                          "there (0 unloads it).")
+FUEL = typer.Option([], "--fuel", metavar="TANK=QTY[@D|@T]",
+                    help="Usable fuel in a tank ('main=30 USgal'), optionally with a density "
+                         "('@6.1 lb/USgal') or the fuel temperature ('@25 degC').")
+TAXI = typer.Option(None, "--taxi", metavar="QTY", help="Taxi fuel (volume or mass).")
+TRIP = typer.Option(None, "--trip", metavar="QTY", help="Trip fuel (volume or mass).")
+BURN = typer.Option(None, "--burn", metavar="SEQ",
+                    help="'proportional', or tanks in the order they are drained "
+                         "('left,right').")
+CONFIG = typer.Option(None, "--configuration", metavar="NAME", help="Configuration in use.")
+CATEGORY = typer.Option(None, "--category", metavar="NAME",
+                        help="Envelope category (default: normal, else the type's first).")
+MASSES = typer.Option(None, "--standard-masses", metavar="SET",
+                      help="Standard-mass set for people given without a mass "
+                           "(default: actual masses).")
+AXLE_RULES = typer.Option(None, "--axle-rules", metavar="NAME",
+                          help="Ground vehicles: axle-group rule set shown as an advisory "
+                               "(see `wbledger axle-rules list`).")
+WIDTH = typer.Option(80, "--width", min=60, max=240, help="Width of the terminal sheet.")
+PDF = typer.Option(None, "--pdf", metavar="FILE", help="Also write the sheet as a PDF to sign.")
+SVG = typer.Option(None, "--svg", metavar="FILE", help="Also write the sheet as SVG.")
+
+
+def _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration, category, masses,
+             axle_rules):
+    from ledger.typedata.plan import QuickOptions
+
+    return QuickOptions(persons=tuple(person), cargo=tuple(cargo), fuel=tuple(fuel),
+                        vacate=tuple(vacate), taxi=taxi, trip=trip, burn=burn,
+                        configuration=configuration, category=category,
+                        standard_masses=masses, axle_rules=axle_rules)
+
+
+def _is_file(target: str) -> bool:
+    return target.lower().endswith(".toml") or Path(target).is_file()
+
+
+def _raw_plan(target: str, options) -> tuple[dict, str]:
+    """The raw plan (file plus options, or options alone) and its source name."""
+    from ledger.typedata.plan import merge_options, plan_from_options, read_plan_file
+
+    if _is_file(target):
+        raw = read_plan_file(target)
+        if not options.empty:
+            raw = merge_options(raw, options)
+        return raw, target
+    return plan_from_options(target, options), "command line"
+
+
+def _preparer(by: str | None, raw: dict) -> str:
+    plan_by = raw.get("prepared_by") if isinstance(raw.get("prepared_by"), str) else None
+    return by or plan_by or common.actor(None)
+
+
+def _outputs(doc: dict, as_json: bool, width: int, pdf: Path | None, svg: Path | None) -> None:
+    if as_json:
+        common.emit(doc, lambda d: None, True)
+    else:
+        from ledger.report.sheet_text import render_sheet
+
+        render_sheet(doc, console=None, width=width)
+    if pdf is not None:
+        from ledger.report.sheet_pdf import write_pdf
+
+        written = write_pdf(doc, pdf)
+        typer.echo(f"Wrote PDF: {written or pdf}", err=True)
+    if svg is not None:
+        from ledger.report.sheet_pdf import write_svg
+
+        written = write_svg(doc, svg)
+        typer.echo(f"Wrote SVG: {written or svg}", err=True)
+
+
+def _exit_for(doc: dict) -> None:
+    if doc.get("verdict") != "in_limits":
+        raise typer.Exit(1)
+
+
+# --- commands -----------------------------------------------------------------------------------
+
+@sheet_app.command("prepare")
+def prepare(ctx: typer.Context, target: str = PLAN_ARG,
+            person: list[str] = PERSON, vacate: list[str] = VACATE, cargo: list[str] = CARGO,
+            fuel: list[str] = FUEL, taxi: str = TAXI, trip: str = TRIP, burn: str = BURN,
+            configuration: str = CONFIG, category: str = CATEGORY, masses: str = MASSES,
+            axle_rules: str = AXLE_RULES, by: str = common.BY_OPTION,
+            save: bool = typer.Option(False, "--save",
+                                      help="Save the sheet (immutable; amend it later)."),
+            as_json: bool = common.JSON_OPTION, pdf: Path = PDF, svg: Path = SVG,
+            width: int = WIDTH) -> None:
+    """Prepare a loading sheet: every phase, the fuel-burn path, margins and fixes.
+
+    `wbledger sheet PLAN` is the same command. Exit code 1 when out of limits.
+    """
+    from ledger.store.db import session_scope
+    from ledger.store.sheets import prepare_sheet, save_prepared
+
+    options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
+                       category, masses, axle_rules)
+    raw, source = _raw_plan(target, options)
+    with session_scope(common.state(ctx).engine()) as session:
+        prepared = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw))
+        doc = prepared.document
+        if save:
+            doc = save_prepared(session, prepared).document
+    _outputs(doc, as_json, width, pdf, svg)
+    if save and not as_json:
+        typer.echo(f"Saved as sheet {doc['sheet']['id']}.", err=True)
+    _exit_for(doc)
+
+
+@sheet_app.command("amend")
+def amend(ctx: typer.Context,
+          sheet_id: int = typer.Argument(..., metavar="ID", help="The saved sheet to amend."),
+          plan_file: Path = typer.Option(None, "--plan", metavar="FILE",
+                                         help="A whole new plan instead of option changes."),
+          person: list[str] = PERSON, vacate: list[str] = VACATE, cargo: list[str] = CARGO,
+          fuel: list[str] = FUEL, taxi: str = TAXI, trip: str = TRIP,
+          by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION, pdf: Path = PDF,
+          svg: Path = SVG, width: int = WIDTH) -> None:
+    """Amend a saved sheet for a last-minute change within the type's tolerance.
+
+    The amended sheet is saved and points at the original; a change beyond the tolerance
+    needs a new sheet (`wbledger sheet PLAN --save`).
+    """
+    from ledger.store.db import session_scope
+    from ledger.store.sheets import amend_sheet
+    from ledger.typedata.plan import read_plan_file
+
+    options = _options(person, vacate, cargo, fuel, taxi, trip, None, None, None, None, None)
+    raw = read_plan_file(plan_file) if plan_file is not None else None
+    with session_scope(common.state(ctx).engine()) as session:
+        saved, check = amend_sheet(session, sheet_id, options=None if raw else options,
+                                   raw=raw, source=str(plan_file) if raw else "amendment",
+                                   preparer=_preparer(by, raw or {}))
+        doc = saved.document
+    _outputs(doc, as_json, width, pdf, svg)
+    if not as_json:
+        typer.echo(f"Saved as sheet {saved.id}, amending sheet {sheet_id}.", err=True)
+    _exit_for(doc)
+
+
+@sheet_app.command("show")
+def show(ctx: typer.Context,
+         sheet_id: int = typer.Argument(..., metavar="ID", help="A saved sheet."),
+         as_json: bool = common.JSON_OPTION, pdf: Path = PDF, svg: Path = SVG,
+         width: int = WIDTH) -> None:
+    """Show a saved sheet as it was saved (its content hash is verified)."""
+    from ledger.store.db import session_scope
+    from ledger.store.sheets import get_sheet, verify_sheet
+
+    with session_scope(common.state(ctx).engine()) as session:
+        saved = get_sheet(session, sheet_id)
+        ok = verify_sheet(session, sheet_id)
+    doc = saved.document
+    doc["sheet"]["verified"] = ok
+    _outputs(doc, as_json, width, pdf, svg)
+    if not ok:
+        common.fail(f"sheet {sheet_id} does not match its content hash; it was changed "
+                    "outside wbledger", 1)
+
+
+@sheet_app.command("list")
+def list_(ctx: typer.Context,
+          registration: str = typer.Argument(None, metavar="[REG]",
+                                             help="Only this vehicle's sheets."),
+          limit: int = typer.Option(50, "--limit", min=1, help="At most this many."),
+          as_json: bool = common.JSON_OPTION) -> None:
+    """List saved sheets, newest first."""
+    from ledger.store.db import session_scope
+    from ledger.store.sheets import list_sheets
+
+    with session_scope(common.state(ctx).engine()) as session:
+        rows = [s.summary() for s in list_sheets(session, registration, limit=limit)]
+
+    def render(rows):
+        if not rows:
+            typer.echo("No saved sheets.")
+        for r in rows:
+            amends = f", amends {r['amends']}" if r["amends"] else ""
+            verdict = "in limits" if r["verdict"] == "in_limits" else "OUT OF LIMITS"
+            typer.echo(f"{r['id']:>5}  {r['created_at'][:16]}  {r['registration']:<10} "
+                       f"{verdict:<13} by {r['preparer']}{amends}")
+
+    common.emit(rows, render, as_json)
+
+
+def check(ctx: typer.Context, target: str = PLAN_ARG,
+          person: list[str] = PERSON, vacate: list[str] = VACATE, cargo: list[str] = CARGO,
+          fuel: list[str] = FUEL, taxi: str = TAXI, trip: str = TRIP, burn: str = BURN,
+          configuration: str = CONFIG, category: str = CATEGORY, masses: str = MASSES,
+          axle_rules: str = AXLE_RULES, by: str = common.BY_OPTION,
+          as_json: bool = common.JSON_OPTION) -> None:
+    """Check a plan without the sheet: exit 0 in limits, 1 out of limits, 2 bad input."""
+    from ledger.store.db import session_scope
+    from ledger.store.sheets import prepare_sheet
+
+    options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
+                       category, masses, axle_rules)
+    raw, source = _raw_plan(target, options)
+    with session_scope(common.state(ctx).engine()) as session:
+        doc = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw)).document
+
+    def render(d):
+        reg = d["vehicle"]["registration"]
+        ok = d["verdict"] == "in_limits"
+        typer.echo(f"{reg}: {'IN LIMITS' if ok else 'OUT OF LIMITS'}")
+        for v in d["violations"]:
+            typer.echo(f"  - {v['message']}")
+        for f in d["fixes"]:
+            typer.echo(f"  fix: {f['description']}")
+        if not ok and d.get("fixes_note"):
+            typer.echo(f"  {d['fixes_note']}")
+        typer.echo(d["caution"])
+
+    common.emit(doc, render, as_json)
+    _exit_for(doc)

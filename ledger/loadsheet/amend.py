@@ -1,0 +1,138 @@
+"""Last-minute changes: is a changed plan within the type's tolerance of the original?
+
+A finished loading sheet may be amended when the change is small: the type data sets how much
+mass (``tolerances.last_minute_mass``) and how many persons (``last_minute_persons``) may
+change (0 means any change of that kind needs a new sheet). Beyond that, or when anything but
+the load changes (vehicle, configuration, envelope category, standard-mass set, burn sequence),
+a new sheet is needed. Common practice: a sheet amended several times is measured against the
+first sheet of the chain, so small changes cannot add up unseen.
+
+How a change is measured:
+
+- mass: the sum over every seat, station and tank of the absolute change of what it holds,
+  plus the absolute change of taxi and trip fuel (moving 20 kg from one station to another
+  counts as 40 kg: both stations changed);
+- persons: the sum over every seat of the absolute change of the number of people in it.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+__all__ = ["Change", "AmendmentCheck", "compare_plans"]
+
+
+@dataclass(frozen=True)
+class Change:
+    """What one seat, station, tank or fuel figure holds before and after."""
+
+    kind: str           # "seat", "station", "tank", "taxi fuel", "trip fuel"
+    subject: str
+    before_kg: float
+    after_kg: float
+    persons_before: int = 0
+    persons_after: int = 0
+
+    @property
+    def mass_change_kg(self) -> float:
+        return abs(self.after_kg - self.before_kg)
+
+    @property
+    def person_change(self) -> int:
+        return abs(self.persons_after - self.persons_before)
+
+
+@dataclass(frozen=True)
+class AmendmentCheck:
+    """Result of :func:`compare_plans`."""
+
+    changes: tuple[Change, ...]
+    mass_change_kg: float
+    person_change: int
+    tolerance_mass_kg: float
+    tolerance_persons: int
+    structural: tuple[str, ...]
+    """Changes that always need a new sheet (e.g. "configuration 'a' → 'b'")."""
+
+    @property
+    def within(self) -> bool:
+        return (not self.structural and bool(self.changes)
+                and self.mass_change_kg <= self.tolerance_mass_kg * (1 + 1e-9) + 1e-9
+                and self.person_change <= self.tolerance_persons)
+
+    def to_dict(self) -> dict:
+        return {"changes": [{"kind": c.kind, "subject": c.subject, "before_kg": c.before_kg,
+                             "after_kg": c.after_kg, "persons_before": c.persons_before,
+                             "persons_after": c.persons_after} for c in self.changes],
+                "mass_change_kg": self.mass_change_kg, "person_change": self.person_change,
+                "tolerance_mass_kg": self.tolerance_mass_kg,
+                "tolerance_persons": self.tolerance_persons,
+                "structural": list(self.structural), "within": self.within}
+
+
+def _by(items, key, mass) -> dict[str, list[float]]:
+    out: dict[str, list[float]] = {}
+    for it in items:
+        out.setdefault(key(it), []).append(mass(it))
+    return out
+
+
+def compare_plans(original, amended, tolerances) -> AmendmentCheck:
+    """Measure the change from ``original`` to ``amended`` (both :class:`ledger.typedata.plan.
+    Plan`) against ``tolerances`` (:class:`ledger.typedata.model.Tolerances`).
+
+    Examples
+    --------
+    >>> from ledger.typedata.plan import Plan, Person, CargoLoad
+    >>> from ledger.typedata.model import Tolerances
+    >>> a = Plan("X", persons=(Person("pilot", 80.0),), cargo=(CargoLoad("hold", 20.0),))
+    >>> b = Plan("X", persons=(Person("pilot", 80.0),), cargo=(CargoLoad("hold", 28.0),))
+    >>> r = compare_plans(a, b, Tolerances(last_minute_mass_kg=10.0))
+    >>> r.mass_change_kg, r.person_change, r.within
+    (8.0, 0, True)
+    >>> compare_plans(a, b, Tolerances(last_minute_mass_kg=5.0)).within
+    False
+    """
+    structural = []
+    for attr, label in (("vehicle", "vehicle"), ("configuration", "configuration"),
+                        ("category", "envelope category"),
+                        ("standard_masses", "standard-mass set"),
+                        ("burn_sequence", "burn sequence"), ("burn_order", "burn order")):
+        a, b = getattr(original, attr), getattr(amended, attr)
+        if a != b:
+            structural.append(f"{label} {a!r} -> {b!r}")
+    changes: list[Change] = []
+    seats_a = _by(original.persons, lambda p: p.seat, lambda p: p.mass_kg)
+    seats_b = _by(amended.persons, lambda p: p.seat, lambda p: p.mass_kg)
+    for seat in sorted(set(seats_a) | set(seats_b)):
+        ma, mb = seats_a.get(seat, []), seats_b.get(seat, [])
+        if sorted(ma) != sorted(mb):
+            changes.append(Change("seat", seat, math.fsum(ma), math.fsum(mb), len(ma), len(mb)))
+    st_a = _by(original.cargo, lambda c: c.station, lambda c: c.mass_kg)
+    st_b = _by(amended.cargo, lambda c: c.station, lambda c: c.mass_kg)
+    for st in sorted(set(st_a) | set(st_b)):
+        ma, mb = math.fsum(st_a.get(st, [])), math.fsum(st_b.get(st, []))
+        xa = sorted((c.x_m or 0.0) for c in original.cargo if c.station == st)
+        xb = sorted((c.x_m or 0.0) for c in amended.cargo if c.station == st)
+        if not math.isclose(ma, mb, rel_tol=1e-12, abs_tol=1e-9):
+            changes.append(Change("station", st, ma, mb))
+        elif xa != xb:
+            structural.append(f"load placed differently in station {st!r}")
+    tk_a = {t.tank: t.mass_kg for t in original.tanks}
+    tk_b = {t.tank: t.mass_kg for t in amended.tanks}
+    for tank in sorted(set(tk_a) | set(tk_b)):
+        ma, mb = tk_a.get(tank, 0.0), tk_b.get(tank, 0.0)
+        if not math.isclose(ma, mb, rel_tol=1e-12, abs_tol=1e-9):
+            changes.append(Change("tank", tank, ma, mb))
+    for attr, label in (("taxi_fuel_kg", "taxi fuel"), ("trip_fuel_kg", "trip fuel")):
+        a, b = getattr(original, attr), getattr(amended, attr)
+        if not math.isclose(a, b, rel_tol=1e-12, abs_tol=1e-9):
+            changes.append(Change(label, label, a, b))
+    return AmendmentCheck(
+        changes=tuple(changes),
+        mass_change_kg=math.fsum(c.mass_change_kg for c in changes),
+        person_change=sum(c.person_change for c in changes),
+        tolerance_mass_kg=tolerances.last_minute_mass_kg,
+        tolerance_persons=tolerances.last_minute_persons,
+        structural=tuple(structural))

@@ -1,0 +1,165 @@
+"""Ground vehicles on a loading sheet: axle and wheel-side loads, ratings, axle-group rules.
+
+Pure. The loads come from :func:`ledger.core.ground.axle_loads` (statics of a rigid vehicle on
+two supports; an axle group shares its support's load in the type's load-sharing ratios), the
+rating check from :func:`ledger.core.ground.check_axle_ratings`, the advisory rules from
+:func:`ledger.core.ground.check_axle_groups` with a rule set named by the plan (for example
+``"us-interstate"``, 23 CFR 658.17). Rule findings are advisory: they never change the verdict,
+and the sheet carries :data:`ledger.report.caution.GROUND_CAUTION` with them.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ledger.errors import InputError, PlanError, TypeDataError
+from ledger.loadsheet.text import mass_text, phase_title
+from ledger.report.caution import GROUND_CAUTION
+
+__all__ = ["supports", "axle_checks"]
+
+
+def supports(vtype):
+    """(axles sorted front to rear, groups for ``axle_loads`` or None, shares or None).
+
+    Axles of one axle group form one support; the others are one support each. A rigid vehicle
+    on more than two supports is statically indeterminate, so the type must group its axles
+    into two.
+    """
+    axles = sorted(vtype.axles, key=lambda a: a.x_m)
+    if len(axles) < 2:
+        raise TypeDataError("axle", len(axles), f"at least two axles for a ground vehicle; "
+                            f"type {vtype.name} has {len(axles)}")
+    index = {a.name: i for i, a in enumerate(axles)}
+    units: list[list[int]] = []
+    shares: list[list[float]] = []
+    seen: set[str] = set()
+    for a in axles:
+        if a.name in seen:
+            continue
+        group = next((g for g in vtype.axle_groups if a.name in g.axles), None)
+        if group is None:
+            units.append([index[a.name]])
+            shares.append([1.0])
+            seen.add(a.name)
+            continue
+        members = sorted(group.axles, key=lambda n: index[n])
+        share = {n: s for n, s in zip(group.axles, group.load_share)}
+        units.append([index[n] for n in members])
+        shares.append([share[n] for n in members])
+        seen.update(members)
+    if len(units) != 2:
+        raise TypeDataError("axle_group", [a.name for a in axles],
+                            f"axles grouped into two supports (front and rear); type "
+                            f"{vtype.name} has {len(units)}, which is statically indeterminate")
+    if len(axles) == 2:
+        return axles, None, None
+    return axles, units, shares
+
+
+def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
+                violations: list, rules=None):
+    """Axle loads per phase (added to each phase as ``axles``), violations, advisories.
+
+    ``rules`` is a :class:`ledger.core.ground.RuleSet` (e.g. from
+    :func:`ledger.rules.load_rule_set`); without it a ``rule_name`` is looked up among the
+    core's built-in rule sets.
+
+    Returns
+    -------
+    (list, list or None, dict or None)
+        The departure axle rows (the document's ``axles``), the advisory findings
+        (``axle_rules``) and the rule set description (``axle_rule_set``).
+    """
+    from ledger.core.ground import (
+        ADVISORY,
+        axle_loads,
+        check_axle_groups,
+        check_axle_ratings,
+        rule_set,
+    )
+
+    du = vtype.units
+    axles, groups, shares = supports(vtype)
+    ax = np.array([a.x_m for a in axles])
+    ratings = np.array([a.rating_kg if a.rating_kg is not None else math.nan for a in axles])
+    tracks = [a.track_m for a in axles]
+    track = tracks if all(t is not None for t in tracks) else None
+    if rules is None and rule_name is not None:
+        try:
+            rules = rule_set(rule_name)
+        except Exception as exc:  # InputError from the core, re-located on the plan field
+            raise PlanError("axle_rules", rule_name, getattr(exc, "allowed", str(exc))) \
+                from None
+    top_rows = None
+    reported: set = set()
+    findings_out: list[dict] | None = [] if rules is not None else None
+    for phase in phases:
+        name = phase["name"]
+        st = states[name]
+        cg = phase["cg_m"]
+        try:
+            loads = axle_loads(st.mass, cg["x"], ax, cg_y=cg["y"] or 0.0, track=track,
+                               groups=groups, shares=shares)
+        except InputError as exc:
+            raise PlanError("plan", phase_title(name),
+                            f"a load the vehicle can stand on ({exc})",
+                            hint="The CG lies outside the axles or the track; "
+                                 "redistribute the load") from None
+        check = check_axle_ratings(loads.axle, ratings)
+        rows = []
+        for i, a in enumerate(axles):
+            margin = None if math.isnan(check.margin[i]) else float(check.margin[i])
+            ok = not bool(check.over[i])
+            rows.append({"phase": name, "name": a.name, "x_m": a.x_m,
+                         "load_kg": float(loads.axle[i]), "rating_kg": a.rating_kg,
+                         "margin_kg": margin,
+                         "left_kg": None if loads.left is None else float(loads.left[i]),
+                         "right_kg": None if loads.right is None else float(loads.right[i]),
+                         "in_limits": ok})
+            if not ok:
+                violations.append({
+                    "code": "axle", "phase": name, "axle": a.name,
+                    "subject": f"axle '{a.name}'", "limit": a.rating_kg,
+                    "actual": float(loads.axle[i]), "excess": -margin, "unit": "kg",
+                    "message": f"{phase_title(name)} load on axle '{a.name}' "
+                               f"{mass_text(loads.axle[i], du)} is over its rating "
+                               f"{mass_text(a.rating_kg, du)} by {mass_text(-margin, du)}"})
+        for g in vtype.axle_groups:
+            if g.rating_kg is None:
+                continue
+            idx = [i for i, a in enumerate(axles) if a.name in g.axles]
+            load = float(loads.axle[idx].sum())
+            if load > g.rating_kg * (1 + 1e-9):
+                violations.append({
+                    "code": "axle", "phase": name, "axle": g.name,
+                    "subject": f"axle group '{g.name}'", "limit": g.rating_kg, "actual": load,
+                    "excess": load - g.rating_kg, "unit": "kg",
+                    "message": f"{phase_title(name)} load on axle group '{g.name}' "
+                               f"{mass_text(load, du)} is over its rating "
+                               f"{mass_text(g.rating_kg, du)} by "
+                               f"{mass_text(load - g.rating_kg, du)}"})
+        phase["axles"] = rows
+        phase["in_limits"] = phase["in_limits"] and all(r["in_limits"] for r in rows) and \
+            not any(v.get("phase") == name for v in violations)
+        if top_rows is None:
+            top_rows = rows
+        if rules is not None:
+            for f in check_axle_groups(rules, ax, loads.axle):
+                key = (f.rule, tuple(f.axles))
+                if name != phases[0]["name"] and (f.ok or key in reported):
+                    continue  # later phases add only what is newly over
+                if not f.ok:
+                    reported.add(key)
+                findings_out.append({
+                    "phase": name, "rule": f.rule, "axles": list(f.axles),
+                    "axle_names": [axles[i].name for i in f.axles], "load_kg": f.load,
+                    "limit_kg": f.limit, "margin_kg": f.margin, "ok": bool(f.ok),
+                    "detail": f.detail, "text": f.text})
+    rule_doc = None
+    if rules is not None:
+        rule_doc = {"key": rule_name, "name": rules.name, "source": rules.source,
+                    "advisory": ADVISORY, "caution": GROUND_CAUTION}
+    return top_rows, findings_out, rule_doc

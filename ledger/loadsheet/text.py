@@ -1,0 +1,69 @@
+"""Short display texts for violation and fix messages, in the type's display units."""
+
+from __future__ import annotations
+
+from ledger.units import DisplayUnits, to_unit
+
+__all__ = ["mass_text", "length_text", "volume_text", "phase_title", "PHASE_TITLES"]
+
+PHASE_TITLES = {"zero_fuel": "Zero-fuel", "ramp": "Ramp", "takeoff": "Take-off",
+                "landing": "Landing", "departure": "Departure", "arrival": "Arrival"}
+
+_LENGTH_DECIMALS = {"in": 2, "m": 3, "mm": 0, "cm": 1, "ft": 3}
+_VOLUME_DECIMALS = {"USgal": 1, "impgal": 1, "L": 1, "m3": 3, "ft3": 2, "in3": 0}
+
+
+def phase_title(name: str) -> str:
+    """``"takeoff"`` → ``"Take-off"``.
+
+    Examples
+    --------
+    >>> phase_title("zero_fuel"), phase_title("arrival")
+    ('Zero-fuel', 'Arrival')
+    """
+    return PHASE_TITLES.get(name, name.replace("_", " ").capitalize())
+
+
+def _fixed(v: float, d: int) -> str:
+    text = f"{v:,.{d}f}"
+    if float(text.replace(",", "")) == 0.0:
+        text = text.lstrip("-")
+    return text
+
+
+def mass_text(kg: float, du: DisplayUnits) -> str:
+    """A mass for a message: whole units from 100 up, else one or two decimals.
+
+    Examples
+    --------
+    >>> du = DisplayUnits("lb", "in", "USgal", 1000)
+    >>> mass_text(1111.3, du), mass_text(29.48350405, du)
+    ('2,450 lb', '65.0 lb')
+    """
+    v = to_unit(kg, du.mass)
+    d = 0 if abs(v) >= 100 else 1 if abs(v) >= 1 else 2
+    return f"{_fixed(v, d)} {du.mass}"
+
+
+def length_text(m: float, du: DisplayUnits) -> str:
+    """An arm or distance for a message.
+
+    Examples
+    --------
+    >>> length_text(2.0447, DisplayUnits("lb", "in", "USgal", 1000))
+    '80.50 in'
+    """
+    v = to_unit(m, du.length)
+    return f"{_fixed(v, _LENGTH_DECIMALS.get(du.length, 2))} {du.length}"
+
+
+def volume_text(m3: float, du: DisplayUnits) -> str:
+    """A volume for a message.
+
+    Examples
+    --------
+    >>> volume_text(0.0946352946, DisplayUnits("lb", "in", "USgal", 1000))
+    '25.0 USgal'
+    """
+    v = to_unit(m3, du.volume)
+    return f"{_fixed(v, _VOLUME_DECIMALS.get(du.volume, 1))} {du.volume}"

@@ -1,0 +1,438 @@
+"""Saved loading sheets: immutable rows, amendments that point at the sheet they change.
+
+A saved sheet keeps the plan (as canonical JSON in SI), the computed document
+(``docs/sheet-document.md``), the id of the type revision and of the ledger entry (the empty
+weight) it used, who prepared it and when, and the SHA-256 of all of that. Nothing here updates
+or deletes a sheet: the ORM refuses a change to a saved row, and a last-minute change is a new
+row whose ``amends_id`` names the sheet it changes.
+
+The stored document has ``sheet.id`` ``null`` and ``sheet.saved`` ``false`` (the id is not known
+before the insert and is not part of the hashed content); :func:`get_sheet` fills in
+``sheet.id``, ``sheet.amends`` and ``sheet.saved`` when it reads a row back.
+
+The library-level orchestration used by the command line also lives here:
+:func:`prepare_sheet` finds the vehicle, its type, its current empty weight and configuration,
+parses the plan against the type and builds the document; :func:`save_prepared` stores it;
+:func:`amend_sheet` applies a last-minute change within the type's tolerance.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import hashlib
+import json
+from dataclasses import dataclass, field
+from typing import Any
+
+from sqlalchemy import event, select
+from sqlalchemy.orm import Session
+
+from ledger.errors import ConflictError, NotFoundError
+from ledger.store.models import (
+    LedgerEntryRow,
+    LoadingSheetRow,
+    TypeRevisionRow,
+    VehicleRow,
+    VehicleTypeRow,
+)
+
+__all__ = [
+    "SavedSheet",
+    "canonical_json",
+    "sheet_content_hash",
+    "save_sheet",
+    "get_sheet",
+    "list_sheets",
+    "verify_sheet",
+    "amendments_of",
+    "PreparedSheet",
+    "prepare_sheet",
+    "save_prepared",
+    "amend_sheet",
+]
+
+
+def canonical_json(data: Any) -> str:
+    """JSON with sorted keys, no spaces and no NaN: the form that is hashed and stored."""
+    return json.dumps(data, sort_keys=True, separators=(",", ":"), ensure_ascii=False,
+                      allow_nan=False)
+
+
+def _iso(value: dt.datetime) -> str:
+    if value.tzinfo is None:  # SQLite gives back naive datetimes; they were stored as UTC
+        value = value.replace(tzinfo=dt.timezone.utc)
+    return value.astimezone(dt.timezone.utc).isoformat()
+
+
+def sheet_content_hash(*, vehicle_id: int, type_revision_id: int, entry_id: int,
+                       amends_id: int | None, created_at: dt.datetime, preparer: str,
+                       verdict: str, plan_json: str, result_json: str) -> str:
+    """SHA-256 over everything a saved sheet says (hex).
+
+    Examples
+    --------
+    >>> import datetime as dt
+    >>> h = sheet_content_hash(vehicle_id=1, type_revision_id=1, entry_id=1, amends_id=None,
+    ...     created_at=dt.datetime(2026, 12, 1, tzinfo=dt.timezone.utc), preparer="A",
+    ...     verdict="in_limits", plan_json="{}", result_json="{}")
+    >>> len(h)
+    64
+    """
+    content = canonical_json({
+        "vehicle_id": vehicle_id, "type_revision_id": type_revision_id, "entry_id": entry_id,
+        "amends_id": amends_id, "created_at": _iso(created_at), "preparer": preparer,
+        "verdict": verdict, "plan": plan_json, "result": result_json,
+    })
+    return hashlib.sha256(content.encode("utf-8")).hexdigest()
+
+
+@dataclass(frozen=True)
+class SavedSheet:
+    """A saved loading sheet as read back from the database."""
+
+    id: int
+    registration: str
+    vehicle_id: int
+    type_revision_id: int
+    type_name: str
+    type_revision: int
+    entry_id: int
+    entry_seq: int
+    amends_id: int | None
+    created_at: dt.datetime
+    preparer: str
+    verdict: str
+    plan: dict = field(repr=False)
+    document: dict = field(repr=False)
+    content_sha256: str = ""
+
+    def summary(self) -> dict:
+        """One line of a listing, JSON-able."""
+        return {"id": self.id, "registration": self.registration, "type": self.type_name,
+                "type_revision": self.type_revision, "entry_seq": self.entry_seq,
+                "amends": self.amends_id, "created_at": _iso(self.created_at),
+                "preparer": self.preparer, "verdict": self.verdict,
+                "content_sha256": self.content_sha256}
+
+
+@event.listens_for(LoadingSheetRow, "before_update")
+def _refuse_update(_mapper, _connection, target) -> None:  # pragma: no cover - guard
+    raise ConflictError(f"loading sheet {target.id} is saved and cannot be changed; "
+                        f"make an amendment with `wbledger sheet amend {target.id}`")
+
+
+@event.listens_for(LoadingSheetRow, "before_delete")
+def _refuse_delete(_mapper, _connection, target) -> None:  # pragma: no cover - guard
+    raise ConflictError(f"loading sheet {target.id} is saved and cannot be deleted")
+
+
+def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entry_id: int,
+               plan: dict, document: dict, preparer: str,
+               created_at: dt.datetime | None = None,
+               amends_id: int | None = None) -> SavedSheet:
+    """Store a computed sheet; return it as read back (with its id).
+
+    Parameters
+    ----------
+    session : Session
+        An open session; the caller's transaction commits it.
+    vehicle_id, type_revision_id, entry_id : int
+        The vehicle, the type revision and the ledger entry (empty weight) the sheet used.
+    plan : dict
+        The plan in SI (``Plan.to_dict()``).
+    document : dict
+        The sheet document (``ledger.loadsheet.build_sheet``); its ``verdict`` is stored too.
+    preparer : str
+        Who prepared it.
+    created_at : datetime, optional
+        Default: now (UTC).
+    amends_id : int, optional
+        The saved sheet this one amends.
+    """
+    created_at = created_at or dt.datetime.now(dt.timezone.utc)
+    doc = json.loads(canonical_json(document))  # a copy; refuses NaN
+    doc.setdefault("sheet", {})
+    doc["sheet"] = {"id": None, "amends": None, "saved": False}
+    verdict = doc.get("verdict")
+    if verdict not in ("in_limits", "out_of_limits"):
+        raise ValueError(f"document verdict {verdict!r} is not in_limits or out_of_limits")
+    plan_json = canonical_json(plan)
+    result_json = canonical_json(doc)
+    digest = sheet_content_hash(vehicle_id=vehicle_id, type_revision_id=type_revision_id,
+                                entry_id=entry_id, amends_id=amends_id, created_at=created_at,
+                                preparer=preparer, verdict=verdict, plan_json=plan_json,
+                                result_json=result_json)
+    row = LoadingSheetRow(vehicle_id=vehicle_id, type_revision_id=type_revision_id,
+                          entry_id=entry_id, amends_id=amends_id, created_at=created_at,
+                          preparer=preparer, verdict=verdict, plan_json=plan_json,
+                          result_json=result_json, content_sha256=digest)
+    session.add(row)
+    session.flush()
+    return get_sheet(session, row.id)
+
+
+def _query():
+    return (select(LoadingSheetRow, VehicleRow.registration, VehicleTypeRow.name,
+                   TypeRevisionRow.revision, LedgerEntryRow.seq)
+            .join(VehicleRow, VehicleRow.id == LoadingSheetRow.vehicle_id)
+            .join(TypeRevisionRow, TypeRevisionRow.id == LoadingSheetRow.type_revision_id)
+            .join(VehicleTypeRow, VehicleTypeRow.id == TypeRevisionRow.type_id)
+            .join(LedgerEntryRow, LedgerEntryRow.id == LoadingSheetRow.entry_id))
+
+
+def _saved(row: LoadingSheetRow, registration: str, type_name: str, revision: int,
+           seq: int) -> SavedSheet:
+    doc = json.loads(row.result_json)
+    doc["sheet"] = {"id": row.id, "amends": row.amends_id, "saved": True,
+                    "content_sha256": row.content_sha256}
+    return SavedSheet(id=row.id, registration=registration, vehicle_id=row.vehicle_id,
+                      type_revision_id=row.type_revision_id, type_name=type_name,
+                      type_revision=revision, entry_id=row.entry_id, entry_seq=seq,
+                      amends_id=row.amends_id, created_at=row.created_at,
+                      preparer=row.preparer, verdict=row.verdict,
+                      plan=json.loads(row.plan_json), document=doc,
+                      content_sha256=row.content_sha256)
+
+
+def get_sheet(session: Session, sheet_id: int) -> SavedSheet:
+    """The saved sheet ``sheet_id``; :class:`NotFoundError` if there is none."""
+    found = session.execute(_query().where(LoadingSheetRow.id == int(sheet_id))).first()
+    if found is None:
+        raise NotFoundError("loading sheet", int(sheet_id),
+                            "List saved sheets with `wbledger sheet list`")
+    return _saved(*found)
+
+
+def list_sheets(session: Session, registration: str | None = None, *,
+                limit: int = 50) -> list[SavedSheet]:
+    """Saved sheets, newest first; of one vehicle if ``registration`` is given."""
+    query = _query()
+    if registration is not None:
+        query = query.where(VehicleRow.registration == registration)
+    query = query.order_by(LoadingSheetRow.id.desc()).limit(int(limit))
+    return [_saved(*r) for r in session.execute(query).all()]
+
+
+def amendments_of(session: Session, sheet_id: int) -> list[int]:
+    """Ids of the sheets that amend ``sheet_id`` directly."""
+    return list(session.scalars(select(LoadingSheetRow.id)
+                                .where(LoadingSheetRow.amends_id == int(sheet_id))
+                                .order_by(LoadingSheetRow.id)))
+
+
+def verify_sheet(session: Session, sheet_id: int) -> bool:
+    """Recompute the content hash of a saved sheet; True when it matches what was stored."""
+    row = session.get(LoadingSheetRow, int(sheet_id))
+    if row is None:
+        raise NotFoundError("loading sheet", int(sheet_id))
+    digest = sheet_content_hash(vehicle_id=row.vehicle_id,
+                                type_revision_id=row.type_revision_id, entry_id=row.entry_id,
+                                amends_id=row.amends_id, created_at=row.created_at,
+                                preparer=row.preparer, verdict=row.verdict,
+                                plan_json=row.plan_json, result_json=row.result_json)
+    return digest == row.content_sha256
+
+
+# --- preparing, saving and amending sheets (the library calls behind `wbledger sheet`) ---------
+
+@dataclass(frozen=True)
+class PreparedSheet:
+    """A computed sheet and everything needed to save it."""
+
+    document: dict = field(repr=False)
+    plan: Any = field(repr=False)  # ledger.typedata.plan.Plan
+    raw_plan: dict = field(repr=False)
+    registration: str = ""
+    vehicle_id: int = 0
+    type_revision_id: int = 0
+    entry_id: int = 0
+    preparer: str = ""
+    prepared_at: dt.datetime | None = None
+
+    @property
+    def verdict(self) -> str:
+        return self.document["verdict"]
+
+    def plan_record(self) -> dict:
+        """What a saved sheet keeps of the plan: the plan as given and as resolved in SI."""
+        return {"raw": _jsonable(self.raw_plan), "plan": self.plan.to_dict()}
+
+
+def _jsonable(value):
+    """The raw plan as JSON can hold it (TOML dates become ISO text)."""
+    if isinstance(value, dict):
+        return {str(k): _jsonable(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_jsonable(v) for v in value]
+    if isinstance(value, (dt.date, dt.time, dt.datetime)):
+        return value.isoformat()
+    return value
+
+
+def _context(session: Session, raw: dict, source: str, type_revision_id: int | None = None):
+    from ledger.store.catalog import get_vehicle, load_type
+    from ledger.store.configs import configuration_items
+    from ledger.store.entries import current_empty, vehicle_type_info
+    from ledger.typedata.plan import plan_vehicle
+
+    registration = plan_vehicle(raw, source)
+    vehicle = get_vehicle(session, registration)
+    if type_revision_id is None:
+        info = vehicle_type_info(session, vehicle)
+        rev_id, revision, vtype = info.revision_id, info.revision, info.vtype
+    else:
+        row = session.get(TypeRevisionRow, type_revision_id)
+        rev_id, revision, vtype = row.id, row.revision, load_type(row)
+    empty = current_empty(session, vehicle.registration)
+    rules = None
+    rule_name = raw.get("axle_rules")
+    if isinstance(rule_name, str) and rule_name.strip():
+        from ledger.rules import load_rule_set
+
+        rules = load_rule_set(rule_name.strip()).rule_set()
+    cfg = None
+    name = raw.get("configuration")
+    if isinstance(name, str) and name.strip():
+        cfg = configuration_items(session, vehicle.registration, name.strip())
+    return vehicle, rev_id, revision, vtype, empty, cfg, rules
+
+
+def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
+                  prepared_at: dt.datetime | None = None,
+                  with_fixes: bool = True) -> PreparedSheet:
+    """Check a raw plan against the vehicle's type and build its sheet (nothing is written).
+
+    The vehicle is the one the plan names; its type is the newest revision, its empty weight
+    the current ledger state (:func:`ledger.store.entries.current_empty`), its configuration
+    the one the plan names (:func:`ledger.store.configs.configuration_items`).
+
+    Raises
+    ------
+    PlanError
+        A bad plan (exit code 2).
+    NotFoundError, ConflictError
+        Unknown vehicle or configuration; a vehicle with no empty weight recorded yet.
+    """
+    from ledger.loadsheet import build_sheet
+    from ledger.typedata.plan import parse_plan
+
+    prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
+    vehicle, rev_id, revision, vtype, empty, cfg, rules = _context(session, raw, source)
+    plan = parse_plan(raw, vtype, source=source,
+                      disabled_stations=None if cfg is None else cfg.disables_stations)
+    doc = build_sheet(vtype, empty, plan,
+                      configuration_items=None if cfg is None else cfg.items,
+                      prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,
+                      registration=vehicle.registration, with_fixes=with_fixes,
+                      axle_rule_set=rules)
+    return PreparedSheet(doc, plan, dict(raw), vehicle.registration, vehicle.id, rev_id,
+                         empty.entry_id, preparer, prepared_at)
+
+
+def save_prepared(session: Session, prepared: PreparedSheet, *,
+                  amends_id: int | None = None) -> SavedSheet:
+    """Save a prepared sheet (immutable from then on)."""
+    return save_sheet(session, vehicle_id=prepared.vehicle_id,
+                      type_revision_id=prepared.type_revision_id, entry_id=prepared.entry_id,
+                      plan=prepared.plan_record(), document=prepared.document,
+                      preparer=prepared.preparer, created_at=prepared.prepared_at,
+                      amends_id=amends_id)
+
+
+def _root(session: Session, sheet: SavedSheet) -> SavedSheet:
+    seen = {sheet.id}
+    while sheet.amends_id is not None:
+        sheet = get_sheet(session, sheet.amends_id)
+        if sheet.id in seen:  # pragma: no cover - ids only ever point back
+            break
+        seen.add(sheet.id)
+    return sheet
+
+
+def _tolerance_text(check, du) -> str:
+    from ledger.loadsheet.text import mass_text
+
+    persons = check.tolerance_persons
+    return (f"{mass_text(check.tolerance_mass_kg, du)} and {persons} "
+            f"{'person' if persons == 1 else 'persons'}")
+
+
+def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | None = None,
+                source: str = "command line", preparer: str,
+                prepared_at: dt.datetime | None = None) -> tuple[SavedSheet, Any]:
+    """Make and save an amended sheet for a last-minute change to saved sheet ``sheet_id``.
+
+    Give the change as quick ``options`` (:class:`ledger.typedata.plan.QuickOptions`, applied
+    over the saved plan) or as a whole new ``raw`` plan. The change is measured against the
+    first sheet of the amendment chain (:func:`ledger.loadsheet.amend.compare_plans`).
+
+    Returns
+    -------
+    (SavedSheet, AmendmentCheck)
+
+    Raises
+    ------
+    ConflictError
+        The sheet was already amended (amend the newest one); the empty weight or type data
+        changed since; nothing changed; or the change is beyond the type's last-minute
+        tolerance: a new sheet is needed.
+    """
+    from ledger.loadsheet import build_sheet
+    from ledger.loadsheet.amend import compare_plans
+    from ledger.typedata.plan import Plan, merge_options, parse_plan
+
+    original = get_sheet(session, sheet_id)
+    later = amendments_of(session, original.id)
+    if later:
+        raise ConflictError(f"loading sheet {original.id} was already amended by sheet "
+                            f"{later[-1]}; amend the newest one "
+                            f"(`wbledger sheet amend {later[-1]} …`)")
+    base_raw = original.plan.get("raw") or {}
+    if raw is None:
+        if options is None or options.empty:
+            raise ConflictError("an amendment needs a change: give --person, --vacate, "
+                                "--cargo, --fuel, --taxi or --trip, or a new plan file")
+        raw = merge_options(base_raw, options)
+        source = "amendment"
+    if raw.get("vehicle") != base_raw.get("vehicle"):
+        raise ConflictError(f"sheet {original.id} is for {original.registration}; an amendment "
+                            "cannot change the vehicle: prepare a new sheet")
+    vehicle, rev_id, revision, vtype, empty, cfg, rules = _context(
+        session, raw, source, original.type_revision_id)
+    newest = _context(session, raw, source)
+    if newest[1] != original.type_revision_id or empty.entry_id != original.entry_id:
+        raise ConflictError(
+            f"the type data or the empty weight of {original.registration} changed since sheet "
+            f"{original.id} (then: type revision {original.type_revision}, ledger entry "
+            f"#{original.entry_seq}; now: revision {newest[2]}, entry #{empty.seq}); a "
+            f"last-minute change cannot carry that: prepare a new sheet with "
+            f"`wbledger sheet PLAN --save`")
+    plan = parse_plan(raw, vtype, source=source,
+                      disabled_stations=None if cfg is None else cfg.disables_stations)
+    root = _root(session, original)
+    check = compare_plans(Plan.from_dict(root.plan["plan"]), plan, vtype.tolerances)
+    if not check.changes and not check.structural:
+        raise ConflictError(f"the amendment changes nothing on sheet {original.id}")
+    if not check.within:
+        from ledger.loadsheet.text import mass_text
+
+        du = vtype.units
+        if check.structural:
+            why = "it changes " + "; ".join(check.structural)
+        else:
+            why = (f"it changes {mass_text(check.mass_change_kg, du)} and "
+                   f"{check.person_change} "
+                   f"{'person' if check.person_change == 1 else 'persons'}")
+        raise ConflictError(
+            f"the change to sheet {root.id} is beyond the last-minute tolerance of type "
+            f"{vtype.name} ({_tolerance_text(check, du)}): {why}; prepare a new sheet with "
+            f"`wbledger sheet PLAN --save`")
+    prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
+    doc = build_sheet(vtype, empty, plan,
+                      configuration_items=None if cfg is None else cfg.items,
+                      prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,
+                      registration=vehicle.registration, axle_rule_set=rules)
+    doc["amendment"] = {"of": original.id, "first_sheet": root.id, **check.to_dict()}
+    prepared = PreparedSheet(doc, plan, dict(raw), vehicle.registration, vehicle.id, rev_id,
+                             empty.entry_id, preparer, prepared_at)
+    return save_prepared(session, prepared, amends_id=original.id), check

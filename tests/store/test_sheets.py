@@ -1,0 +1,252 @@
+"""Saved loading sheets: immutable, hashed, and amended only within the type's tolerance.
+
+Runs on SQLite and PostgreSQL (the ``engine`` fixture builds the schema through the
+migrations). The test type is a fixture (no real aircraft); the last-minute tolerance
+(20 lb, 0 persons) is the test's own choice. Weighing arithmetic: CG = Σ(R·x)/ΣR
+(FAA-H-8083-1, weighing chapter).
+"""
+
+from __future__ import annotations
+
+import pytest
+from sqlalchemy import func, select, text
+
+from ledger.errors import ConflictError, PlanError
+from ledger.store.catalog import add_vehicle, import_type
+from ledger.store.db import session_scope
+from ledger.store.entries import install_item, record_weighing
+from ledger.store.models import LoadingSheetRow
+from ledger.store.sheets import (
+    amend_sheet,
+    get_sheet,
+    list_sheets,
+    prepare_sheet,
+    save_prepared,
+    verify_sheet,
+)
+from ledger.testing import assert_close
+from ledger.typedata import parse_type_text
+from ledger.typedata.plan import QuickOptions, read_plan_text
+
+LB = 0.45359237  # kg, exact (NIST SP 811)
+IN = 0.0254
+
+TYPE = """
+format_version = 1
+[vehicle]
+name = "TS-1"
+title = "Test type for saved sheets"
+kind = "airplane"
+[units]
+mass = "lb"
+length = "in"
+volume = "USgal"
+moment_divisor = 1000
+[datum]
+description = "test datum"
+[limits]
+max_takeoff = 2450
+[[station]]
+name = "pilot"
+kind = "crew"
+x = 37.0
+[[station]]
+name = "rear"
+kind = "passenger"
+x = 73.0
+persons = 2
+[[station]]
+name = "baggage"
+kind = "cargo"
+x = 95.0
+max_mass = 120
+[[tank]]
+name = "main"
+fluid = "avgas"
+capacity = 40
+unusable = 1
+x = 48.0
+[[envelope]]
+name = "normal"
+category = "normal"
+axis = "longitudinal"
+points = [[35.0, 1500], [35.0, 2450], [47.3, 2450], [47.3, 1500]]
+[[reaction_point]]
+name = "nose"
+x = -6.5
+[[reaction_point]]
+name = "main"
+x = 58.0
+[tolerances]
+last_minute_mass = "20 lb"
+last_minute_persons = 0
+"""
+
+PLAN = """plan_format = 1
+vehicle = "TS-101"
+[[person]]
+seat = "pilot"
+mass = 180
+[[cargo]]
+station = "baggage"
+mass = 40
+[fuel]
+trip = "20 USgal"
+[fuel.tanks]
+main = "30 USgal"
+"""
+
+
+@pytest.fixture
+def fleet(engine):
+    vt = parse_type_text(TYPE, source="ts-1.toml")
+    with session_scope(engine) as s:
+        import_type(s, vt, "ts-1.toml", TYPE)
+        add_vehicle(s, "TS-101", "TS-1")
+        add_vehicle(s, "TS-102", "TS-1")
+        record_weighing(s, "TS-101", {"nose": "350 lb", "main": "1300 lb"}, actor="tester",
+                        entry_date="2026-11-30")
+    return engine
+
+
+def _save(engine, plan_text=PLAN, preparer="R. Ortega"):
+    with session_scope(engine) as s:
+        prepared = prepare_sheet(s, read_plan_text(plan_text, "plan.toml"), source="plan.toml",
+                                 preparer=preparer)
+        return save_prepared(s, prepared)
+
+
+def _count(engine) -> int:
+    with engine.connect() as conn:
+        return conn.execute(select(func.count()).select_from(LoadingSheetRow)).scalar_one()
+
+
+def test_save_get_list_and_verify(fleet):
+    saved = _save(fleet)
+    doc = saved.document
+    assert doc["sheet"]["id"] == saved.id and doc["sheet"]["saved"] is True
+    assert doc["sheet"]["amends"] is None
+    # The empty weight used: 1,650 lb at (350 × −6.5 + 1,300 × 58) / 1,650 in (Σ R·x / Σ R).
+    assert_close(doc["empty_weight"]["mass_kg"] / LB, 1650.0, unit="lb", rtol=1e-12)
+    assert_close(doc["empty_weight"]["cg_m"]["x"] / IN, (350 * -6.5 + 1300 * 58) / 1650,
+                 unit="in", rtol=1e-12)
+    assert doc["empty_weight"]["entry_seq"] == 1
+    with session_scope(fleet) as s:
+        again = get_sheet(s, saved.id)
+        assert again.document == doc
+        assert again.plan["plan"]["vehicle"] == "TS-101"
+        assert again.plan["raw"]["person"][0]["seat"] == "pilot"
+        assert (again.type_name, again.type_revision, again.entry_seq) == ("TS-1", 1, 1)
+        assert again.preparer == "R. Ortega" and again.verdict == "in_limits"
+        assert verify_sheet(s, saved.id)
+        assert [x.id for x in list_sheets(s)] == [saved.id]
+        assert list_sheets(s, "TS-102") == []
+        assert len(again.content_sha256) == 64
+
+
+def test_a_saved_sheet_cannot_be_changed(fleet):
+    saved = _save(fleet)
+    with pytest.raises(ConflictError) as err:
+        with session_scope(fleet) as s:
+            row = s.get(LoadingSheetRow, saved.id)
+            row.preparer = "someone else"
+            s.flush()
+    assert str(err.value) == (f"loading sheet {saved.id} is saved and cannot be changed; make "
+                              f"an amendment with `wbledger sheet amend {saved.id}`")
+    with session_scope(fleet) as s:
+        assert get_sheet(s, saved.id).preparer == "R. Ortega"
+    # A change made behind the library's back is caught by the content hash.
+    with fleet.begin() as conn:
+        conn.execute(text("UPDATE loading_sheets SET preparer = 'X' WHERE id = :i"),
+                     {"i": saved.id})
+    with session_scope(fleet) as s:
+        assert verify_sheet(s, saved.id) is False
+
+
+def test_amendment_within_the_tolerance_points_at_the_original(fleet):
+    saved = _save(fleet)
+    with session_scope(fleet) as s:
+        amended, check = amend_sheet(s, saved.id, options=QuickOptions(cargo=("baggage=55",)),
+                                     preparer="R. Ortega")
+    assert amended.amends_id == saved.id and amended.id != saved.id
+    assert check.within
+    assert_close(check.mass_change_kg / LB, 15.0, unit="lb", rtol=1e-12)
+    doc = amended.document
+    assert doc["sheet"]["amends"] == saved.id
+    assert doc["amendment"]["of"] == saved.id and doc["amendment"]["within"] is True
+    items = {i["station"]: i for i in doc["items"]}
+    assert_close(items["baggage"]["mass_kg"] / LB, 55.0, unit="lb", rtol=1e-12)
+    with session_scope(fleet) as s:
+        original = get_sheet(s, saved.id)
+        assert {i["station"]: i["mass_kg"] for i in original.document["items"]}["baggage"] \
+            == pytest.approx(40 * LB)
+        assert verify_sheet(s, amended.id)
+
+
+def test_changes_beyond_the_tolerance_need_a_new_sheet(fleet):
+    saved = _save(fleet)
+    before = _count(fleet)
+    with pytest.raises(ConflictError) as err:
+        with session_scope(fleet) as s:
+            amend_sheet(s, saved.id, options=QuickOptions(cargo=("baggage=70",)),
+                        preparer="R. Ortega")
+    assert str(err.value) == (
+        f"the change to sheet {saved.id} is beyond the last-minute tolerance of type TS-1 "
+        "(20.0 lb and 0 persons): it changes 30.0 lb and 0 persons; prepare a new sheet with "
+        "`wbledger sheet PLAN --save`")
+    with pytest.raises(ConflictError) as err:
+        with session_scope(fleet) as s:
+            amend_sheet(s, saved.id, options=QuickOptions(persons=("rear=10",)),
+                        preparer="R. Ortega")
+    assert "it changes 10.0 lb and 1 person;" in str(err.value)
+    assert _count(fleet) == before  # nothing saved
+
+
+def test_amendments_add_up_against_the_first_sheet(fleet):
+    first = _save(fleet)
+    with session_scope(fleet) as s:
+        second, _ = amend_sheet(s, first.id, options=QuickOptions(cargo=("baggage=55",)),
+                                preparer="A")
+    with pytest.raises(ConflictError) as err:
+        with session_scope(fleet) as s:
+            amend_sheet(s, first.id, options=QuickOptions(cargo=("baggage=45",)),
+                        preparer="A")
+    assert str(err.value) == (f"loading sheet {first.id} was already amended by sheet "
+                              f"{second.id}; amend the newest one "
+                              f"(`wbledger sheet amend {second.id} …`)")
+    # +15 lb then +10 lb: 25 lb from the first sheet, over the 20 lb tolerance.
+    with pytest.raises(ConflictError) as err:
+        with session_scope(fleet) as s:
+            amend_sheet(s, second.id, options=QuickOptions(cargo=("baggage=65",)),
+                        preparer="A")
+    assert f"the change to sheet {first.id} is beyond" in str(err.value)
+    assert "it changes 25.0 lb" in str(err.value)
+    with session_scope(fleet) as s:  # back to within 20 lb of the first sheet: accepted
+        third, check = amend_sheet(s, second.id, options=QuickOptions(cargo=("baggage=50",)),
+                                   preparer="A")
+    assert third.amends_id == second.id
+    assert_close(check.mass_change_kg / LB, 10.0, unit="lb", rtol=1e-12)
+
+
+def test_amendment_refused_when_the_empty_weight_changed(fleet):
+    saved = _save(fleet)
+    with session_scope(fleet) as s:
+        install_item(s, "TS-101", "radio", mass="3 lb", arm="20 in", actor="tester",
+                     reason="test")
+    with pytest.raises(ConflictError) as err:
+        with session_scope(fleet) as s:
+            amend_sheet(s, saved.id, options=QuickOptions(cargo=("baggage=45",)),
+                        preparer="A")
+    assert str(err.value) == (
+        f"the type data or the empty weight of TS-101 changed since sheet {saved.id} (then: "
+        "type revision 1, ledger entry #1; now: revision 1, entry #2); a last-minute change "
+        "cannot carry that: prepare a new sheet with `wbledger sheet PLAN --save`")
+
+
+def test_no_sheet_for_a_vehicle_without_empty_weight_and_bad_plans_save_nothing(fleet):
+    with pytest.raises(ConflictError) as err:
+        _save(fleet, PLAN.replace("TS-101", "TS-102"))
+    assert "has no weighing recorded yet" in str(err.value)
+    with pytest.raises(PlanError):
+        _save(fleet, PLAN.replace('mass = 180', 'mass = "-180 lb"'))
+    assert _count(fleet) == 0
