@@ -25,6 +25,9 @@ def test_wheel_install_runs_migrations(tmp_path):
     assert "ledger/_migrations/env.py" in names
     assert "ledger/_migrations/script.py.mako" in names
     assert any(n.startswith("ledger/_migrations/versions/0001_") for n in names)
+    assert "ledger/rules/us-federal-interstate.toml" in names
+    assert "ledger/_demo_fleet/kv-p4.toml" in names
+    assert "ledger/_demo_fleet/plans/kva-101-local.toml" in names
     assert not any(n.startswith("tests/") for n in names)
 
     env_dir = tmp_path / "venv"
@@ -45,3 +48,11 @@ def test_wheel_install_runs_migrations(tmp_path):
                             env=env, cwd=tmp_path, capture_output=True, text=True)
     assert status.returncode == 0, status.stderr
     assert '"up_to_date": true' in status.stdout
+    # The whole main job from the installed wheel alone: the demo's own database, sheets, PDF.
+    demo = subprocess.run([str(env_dir / "bin" / "wbledger"), "demo", "--out", "demo"],
+                          env={**env, "WBLEDGER_DB": ""}, cwd=tmp_path, capture_output=True,
+                          text=True)
+    assert demo.returncode == 0, demo.stderr[-2000:]
+    assert "$ wbledger sheet prepare demo/" not in demo.stdout  # fleet paths are the wheel's
+    assert (tmp_path / "demo" / "kva-101-local.pdf").read_bytes().startswith(b"%PDF")
+    assert "CAUTION" in demo.stdout

@@ -47,9 +47,6 @@ __all__ = [
     "cg_height_axle_lift",
     "bridge_formula_lb",
     "RuleSet",
-    "US_FEDERAL_INTERSTATE",
-    "RULE_SETS",
-    "rule_set",
     "Finding",
     "check_axle_groups",
 ]
@@ -771,7 +768,7 @@ class RuleSet:
 
     @classmethod
     def from_dict(cls, data: Mapping[str, object]) -> "RuleSet":
-        """Build a rule set from a mapping such as :data:`US_FEDERAL_INTERSTATE`.
+        """Build a rule set from a mapping (the rule-set files of :mod:`ledger.rules` give one).
 
         Keys: ``name``; ``single_axle``, ``tandem``, ``gross`` each with a unit suffix ``_kg`` or
         ``_lb``; ``single_spread``, ``tandem_spread`` and optionally ``tandem_pair_spread`` with
@@ -829,37 +826,6 @@ class RuleSet:
                    tandem_max=masses["tandem"], gross_max=masses["gross"],
                    bridge_formula=bridge, single_spread=single, tandem_spread=tandem,
                    tandem_pair_spread=pair, source=str(data.get("source", "")))
-
-
-#: US federal limits on the Interstate System, as data (23 CFR 658.17; 23 U.S.C. 127).
-US_FEDERAL_INTERSTATE: dict[str, object] = {
-    "name": "US federal, Interstate System",
-    "single_axle_lb": 20000,
-    "tandem_lb": 34000,
-    "gross_lb": 80000,
-    "bridge_formula": True,
-    "single_spread_in": 40,
-    "tandem_spread_in": 96,
-    "tandem_pair_spread_ft": 36,
-    "source": "23 CFR 658.17 (single axle, tandem, gross, bridge formula and the two-tandem "
-              "exception); axle definitions as in 23 CFR 658.5",
-}
-
-#: Rule sets known by name. More can be added as data with :meth:`RuleSet.from_dict`.
-RULE_SETS: dict[str, RuleSet] = {"us-interstate": RuleSet.from_dict(US_FEDERAL_INTERSTATE)}
-
-
-def rule_set(name: str) -> RuleSet:
-    """A rule set of :data:`RULE_SETS` by name.
-
-    Examples
-    --------
-    >>> round(rule_set("us-interstate").single_axle_max, 4)
-    9071.8474
-    """
-    if name not in RULE_SETS:
-        raise InputError("rule set", name, "one of " + ", ".join(repr(k) for k in RULE_SETS))
-    return RULE_SETS[name]
 
 
 @dataclass(frozen=True)
@@ -959,7 +925,10 @@ def check_axle_groups(rules: RuleSet, axle_x, axle_load) -> tuple[Finding, ...]:
     >>> x = [0.0, 5.0, 6.3, 15.5, 16.8]
     >>> lb = 0.45359237
     >>> loads = [12000 * lb, 16500 * lb, 16500 * lb, 17500 * lb, 17500 * lb]
-    >>> for f in check_axle_groups(rule_set("us-interstate"), x, loads):
+    >>> us = RuleSet.from_dict({"name": "US federal", "single_axle_lb": 20000,
+    ...     "tandem_lb": 34000, "gross_lb": 80000, "bridge_formula": True,
+    ...     "single_spread_in": 40, "tandem_spread_in": 96, "tandem_pair_spread_ft": 36})
+    >>> for f in check_axle_groups(us, x, loads):
     ...     if not f.ok:
     ...         print(f.text)
     tandem, axles 4, 5: 15876 kg against 15422 kg, over by 454 kg

@@ -63,9 +63,8 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
                 violations: list, rules=None):
     """Axle loads per phase (added to each phase as ``axles``), violations, advisories.
 
-    ``rules`` is a :class:`ledger.core.ground.RuleSet` (e.g. from
-    :func:`ledger.rules.load_rule_set`); without it a ``rule_name`` is looked up among the
-    core's built-in rule sets.
+    ``rules`` is a :class:`ledger.core.ground.RuleSet`; without it a ``rule_name`` is looked up
+    with :func:`ledger.rules.load_rule_set` (the shipped rule files and the user's own).
 
     Returns
     -------
@@ -78,7 +77,6 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
         axle_loads,
         check_axle_groups,
         check_axle_ratings,
-        rule_set,
     )
 
     du = vtype.units
@@ -88,9 +86,12 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
     tracks = [a.track_m for a in axles]
     track = tracks if all(t is not None for t in tracks) else None
     if rules is None and rule_name is not None:
+        from ledger.errors import LedgerError
+        from ledger.rules import load_rule_set
+
         try:
-            rules = rule_set(rule_name)
-        except Exception as exc:  # InputError from the core, re-located on the plan field
+            rules = load_rule_set(rule_name).rule_set()
+        except LedgerError as exc:  # re-located on the plan field
             raise PlanError("axle_rules", rule_name, getattr(exc, "allowed", str(exc))) \
                 from None
     top_rows = None

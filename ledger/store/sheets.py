@@ -284,17 +284,11 @@ def _context(session: Session, raw: dict, source: str, type_revision_id: int | N
         row = session.get(TypeRevisionRow, type_revision_id)
         rev_id, revision, vtype = row.id, row.revision, load_type(row)
     empty = current_empty(session, vehicle.registration)
-    rules = None
-    rule_name = raw.get("axle_rules")
-    if isinstance(rule_name, str) and rule_name.strip():
-        from ledger.rules import load_rule_set
-
-        rules = load_rule_set(rule_name.strip()).rule_set()
     cfg = None
     name = raw.get("configuration")
     if isinstance(name, str) and name.strip():
         cfg = configuration_items(session, vehicle.registration, name.strip())
-    return vehicle, rev_id, revision, vtype, empty, cfg, rules
+    return vehicle, rev_id, revision, vtype, empty, cfg
 
 
 def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
@@ -317,14 +311,13 @@ def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
     from ledger.typedata.plan import parse_plan
 
     prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
-    vehicle, rev_id, revision, vtype, empty, cfg, rules = _context(session, raw, source)
+    vehicle, rev_id, revision, vtype, empty, cfg = _context(session, raw, source)
     plan = parse_plan(raw, vtype, source=source,
                       disabled_stations=None if cfg is None else cfg.disables_stations)
     doc = build_sheet(vtype, empty, plan,
                       configuration_items=None if cfg is None else cfg.items,
                       prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,
-                      registration=vehicle.registration, with_fixes=with_fixes,
-                      axle_rule_set=rules)
+                      registration=vehicle.registration, with_fixes=with_fixes)
     return PreparedSheet(doc, plan, dict(raw), vehicle.registration, vehicle.id, rev_id,
                          empty.entry_id, preparer, prepared_at)
 
@@ -397,7 +390,7 @@ def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | No
     if raw.get("vehicle") != base_raw.get("vehicle"):
         raise ConflictError(f"sheet {original.id} is for {original.registration}; an amendment "
                             "cannot change the vehicle: prepare a new sheet")
-    vehicle, rev_id, revision, vtype, empty, cfg, rules = _context(
+    vehicle, rev_id, revision, vtype, empty, cfg = _context(
         session, raw, source, original.type_revision_id)
     newest = _context(session, raw, source)
     if newest[1] != original.type_revision_id or empty.entry_id != original.entry_id:
@@ -431,7 +424,7 @@ def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | No
     doc = build_sheet(vtype, empty, plan,
                       configuration_items=None if cfg is None else cfg.items,
                       prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,
-                      registration=vehicle.registration, axle_rule_set=rules)
+                      registration=vehicle.registration)
     doc["amendment"] = {"of": original.id, "first_sheet": root.id, **check.to_dict()}
     prepared = PreparedSheet(doc, plan, dict(raw), vehicle.registration, vehicle.id, rev_id,
                              empty.entry_id, preparer, prepared_at)

@@ -452,10 +452,10 @@ def test_axle_overload_is_fixed_by_moving_the_load_forward():
 
 
 def test_axle_group_rules_are_advisory_only():
-    # 23 CFR 658.17: 20,000 lb on a single axle (the built-in "us-interstate" rule set).
+    # 23 CFR 658.17: 20,000 lb on a single axle (the shipped "us-federal-interstate" rule set).
     vt = truck_type(rear_rating=10000)
     doc = sheet(vt, EmptyWeight(5000.0, 5000.0 * 2.0, 0.0),
-                'axle_rules = "us-interstate"\n'
+                'axle_rules = "us-federal-interstate"\n'
                 '[[cargo]]\nstation = "box"\nmass = 6000\nx = 4.5\n')
     rear = (5000 * 2.0 + 6000 * 4.5) / 4.0  # 9,250 kg: within the 10,000 kg rating
     assert rear > 20000 * LB
