@@ -34,7 +34,7 @@ def add(ctx: typer.Context,
 @vehicle_app.command("list")
 def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
     """The fleet: each vehicle's current empty mass and CG, last weighing and warnings."""
-    from ledger.report.catalog import render_fleet
+    from ledger.report.ledger import render_fleet
     from ledger.store.db import session_scope
     from ledger.store.views import fleet_view
 
@@ -47,7 +47,7 @@ def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
 def show(ctx: typer.Context, registration: str = typer.Argument(..., metavar="REG"),
          as_json: bool = common.JSON_OPTION) -> None:
     """One vehicle: its type, current empty mass and CG, and last entries."""
-    from ledger.report.catalog import render_vehicle
+    from ledger.report.ledger import render_vehicle
     from ledger.store.db import session_scope
     from ledger.store.views import vehicle_view
 

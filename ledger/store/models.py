@@ -123,7 +123,13 @@ class LedgerEntryRow(Base):
             name="kind_known",
         ),
         CheckConstraint("empty_mass_kg >= 0", name="empty_mass_not_negative"),
+        CheckConstraint("z_known IN (0, 1)", name="z_known_flag"),
+        CheckConstraint("baseline_seq >= 1 AND baseline_seq <= seq", name="baseline_not_after"),
+        CheckConstraint("reverses_seq IS NULL OR (reverses_seq >= 1 AND reverses_seq < seq)",
+                        name="reverses_earlier"),
         Index("ix_ledger_entries_vehicle_kind_seq", "vehicle_id", "kind", "seq"),
+        # The state of one item (installed or not) is its newest entry: found through this.
+        Index("ix_ledger_entries_vehicle_item_seq", "vehicle_id", "item", "seq"),
     )
 
     id: Mapped[IntPK]
@@ -165,7 +171,10 @@ class ConfigurationRow(Base):
 
     __tablename__ = "configurations"
     __table_args__ = (
-        UniqueConstraint("type_id", "vehicle_id", "name"),
+        # One owner per row, so each pair is unique among the rows of that owner (the NULL of
+        # the other owner never collides: SQL treats NULLs in a UNIQUE constraint as distinct).
+        UniqueConstraint("type_id", "name"),
+        UniqueConstraint("vehicle_id", "name"),
         CheckConstraint(
             "(type_id IS NULL) <> (vehicle_id IS NULL)", name="one_owner"
         ),

@@ -29,7 +29,8 @@ def upgrade() -> None:
     sa.ForeignKeyConstraint(['type_id'], ['vehicle_types.id'], name=op.f('fk_configurations_type_id_vehicle_types')),
     sa.ForeignKeyConstraint(['vehicle_id'], ['vehicles.id'], name=op.f('fk_configurations_vehicle_id_vehicles')),
     sa.PrimaryKeyConstraint('id', name=op.f('pk_configurations')),
-    sa.UniqueConstraint('type_id', 'vehicle_id', 'name', name=op.f('uq_configurations_type_id_vehicle_id_name'))
+    sa.UniqueConstraint('type_id', 'name', name=op.f('uq_configurations_type_id_name')),
+    sa.UniqueConstraint('vehicle_id', 'name', name=op.f('uq_configurations_vehicle_id_name'))
     )
     op.create_table('ledger_entries',
     sa.Column('id', sa.Integer(), autoincrement=True, nullable=False),
@@ -62,6 +63,9 @@ def upgrade() -> None:
     sa.Column('entry_hash', sa.String(length=64), nullable=False),
     sa.CheckConstraint("kind IN ('weighing', 'install', 'remove', 'correction', 'cg_height')", name=op.f('ck_ledger_entries_kind_known')),
     sa.CheckConstraint('empty_mass_kg >= 0', name=op.f('ck_ledger_entries_empty_mass_not_negative')),
+    sa.CheckConstraint('z_known IN (0, 1)', name=op.f('ck_ledger_entries_z_known_flag')),
+    sa.CheckConstraint('baseline_seq >= 1 AND baseline_seq <= seq', name=op.f('ck_ledger_entries_baseline_not_after')),
+    sa.CheckConstraint('reverses_seq IS NULL OR (reverses_seq >= 1 AND reverses_seq < seq)', name=op.f('ck_ledger_entries_reverses_earlier')),
     sa.CheckConstraint('seq >= 1', name=op.f('ck_ledger_entries_seq_positive')),
     sa.ForeignKeyConstraint(['vehicle_id'], ['vehicles.id'], name=op.f('fk_ledger_entries_vehicle_id_vehicles')),
     sa.PrimaryKeyConstraint('id', name=op.f('pk_ledger_entries')),
@@ -69,6 +73,7 @@ def upgrade() -> None:
     )
     with op.batch_alter_table('ledger_entries', schema=None) as batch_op:
         batch_op.create_index('ix_ledger_entries_vehicle_kind_seq', ['vehicle_id', 'kind', 'seq'], unique=False)
+        batch_op.create_index('ix_ledger_entries_vehicle_item_seq', ['vehicle_id', 'item', 'seq'], unique=False)
 
     op.create_table('loading_sheets',
     sa.Column('id', sa.Integer(), autoincrement=True, nullable=False),
@@ -94,6 +99,7 @@ def upgrade() -> None:
 def downgrade() -> None:
     op.drop_table("loading_sheets")
     with op.batch_alter_table("ledger_entries", schema=None) as batch_op:
+        batch_op.drop_index("ix_ledger_entries_vehicle_item_seq")
         batch_op.drop_index("ix_ledger_entries_vehicle_kind_seq")
     op.drop_table("ledger_entries")
     op.drop_table("configurations")

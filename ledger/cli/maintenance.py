@@ -1,0 +1,236 @@
+"""Maintenance commands: ``weigh``, ``install``, ``remove``, ``correct``, ``history``,
+``verify``, ``export`` and ``import-history``.
+
+Each command parses its options, makes its call into :mod:`ledger.store` inside one
+transaction, and renders the result with :mod:`ledger.report.ledger`. Quantities are typed with
+their unit ("520 lb", "47.5 in"); a bare number takes the vehicle type's display unit.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import typer
+
+from ledger.cli import common
+
+DATE_OPTION = typer.Option(None, "--date", metavar="YYYY-MM-DD",
+                           help="Date of the work (default today; not in the future).")
+REASON_HELP = "Why (kept in the ledger)."
+REF_OPTION = typer.Option(None, "--ref", metavar="TEXT",
+                          help="Work order or other reference.")
+REG_ARG = typer.Argument(..., metavar="REG", help="Registration or fleet id.")
+
+
+def register(app: typer.Typer) -> None:
+    app.command("weigh")(weigh)
+    app.command("install")(install)
+    app.command("remove")(remove)
+    app.command("correct")(correct)
+    app.command("history")(history)
+    app.command("verify")(verify)
+    app.command("export")(export)
+    app.command("import-history")(import_history)
+
+
+def _pairs(values: list[str] | None, option: str, example: str) -> dict[str, str]:
+    """``["nose=520 lb", …]`` → ``{"nose": "520 lb", …}``."""
+    from ledger.errors import InputError
+
+    out: dict[str, str] = {}
+    for text in values or []:
+        key, sep, value = text.partition("=")
+        if not sep or not key.strip() or not value.strip():
+            raise InputError(option, text, f"NAME=VALUE, e.g. {example}")
+        if key.strip() in out:
+            raise InputError(option, key.strip(), "given twice; once per name")
+        out[key.strip()] = value.strip()
+    return out
+
+
+def _recorded(ctx: typer.Context, as_json: bool, call) -> None:
+    """Run ``call(session)`` (an append) in one transaction and show the entry it made."""
+    from ledger.report.ledger import render_entry
+    from ledger.store.db import session_scope
+    from ledger.store.views import entry_view
+
+    with session_scope(common.state(ctx).engine()) as session:
+        data = entry_view(session, call(session))
+    common.emit(data, render_entry, as_json)
+
+
+def weigh(ctx: typer.Context, registration: str = REG_ARG,
+          reading: list[str] = typer.Option(None, "--reading", metavar="POINT=MASS",
+                                            help="Scale reading at a weighing point; one per "
+                                                 "point the type defines."),
+          tare: list[str] = typer.Option(None, "--tare", metavar="POINT=MASS",
+                                         help="Tare at a point (chocks, blocks)."),
+          fuel: list[str] = typer.Option(None, "--fuel", metavar="TANK=QUANTITY",
+                                         help="Fuel in a tank as weighed (volume or mass); "
+                                              "usable fuel is removed, unusable kept. A tank "
+                                              "not named holds its unusable fuel."),
+          adjust: list[str] = typer.Option(None, "--adjust", metavar="LABEL=MASS@ARM[,LAT[,VERT]]",
+                                           help="Other correction to the as-weighed state: a "
+                                                "positive mass is added (oil drained), a "
+                                                "negative one removed."),
+          entry_date: str = DATE_OPTION,
+          scales: str = typer.Option(None, "--scales", metavar="TEXT",
+                                     help="Scales used (make, serial, calibration)."),
+          level: str = typer.Option(None, "--level", metavar="TEXT",
+                                    help="How the vehicle was levelled."),
+          note: str = typer.Option(None, "--note", metavar="TEXT", help="Anything else."),
+          reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+          reference: str = REF_OPTION,
+          by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
+    """Record a weighing: the empty mass and CG from the scale readings start a new baseline."""
+    from ledger.store.configs import parse_item_spec
+    from ledger.store.entries import record_weighing
+
+    readings = _pairs(reading, "--reading", "nose=520 lb")
+    tares = _pairs(tare, "--tare", "nose=4 lb")
+    fuels = _pairs(fuel, "--fuel", "'left wing=10 USgal'")
+    adjustments = [parse_item_spec(a, field="--adjust") for a in adjust or []]
+    _recorded(ctx, as_json, lambda s: record_weighing(
+        s, registration, readings, tares=tares, fuel=fuels, adjustments=adjustments,
+        actor=common.actor(by), entry_date=entry_date, scales=scales, level=level, note=note,
+        reason=reason, reference=reference))
+
+
+def install(ctx: typer.Context, registration: str = REG_ARG,
+            item: str = typer.Argument(..., metavar="ITEM", help="Name of the item."),
+            mass: str = typer.Option(None, "--mass", metavar="MASS", help="Its mass."),
+            arm: str = typer.Option(None, "--arm", metavar="LENGTH",
+                                    help="Its longitudinal arm (station)."),
+            lat_arm: str = typer.Option(None, "--lat-arm", metavar="LENGTH",
+                                        help="Lateral arm, + right (default 0)."),
+            vert_arm: str = typer.Option(None, "--vert-arm", metavar="LENGTH",
+                                         help="Vertical arm (default: not known)."),
+            shape: str = typer.Option(None, "--shape", metavar="KIND,KEY=VALUE,…",
+                                      help="Shape for inertia, e.g. box,length=20,width=12,"
+                                           "height=8."),
+            reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+            reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
+            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
+    """Record the installation of an item (adds its mass at its arms)."""
+    from ledger.store.entries import install_item
+
+    _recorded(ctx, as_json, lambda s: install_item(
+        s, registration, item, mass=mass, arm=arm, lat_arm=lat_arm, vert_arm=vert_arm,
+        shape=shape, actor=common.actor(by), reason=reason, reference=reference,
+        entry_date=entry_date))
+
+
+def remove(ctx: typer.Context, registration: str = REG_ARG,
+           item: str = typer.Argument(..., metavar="ITEM", help="Name of an installed item."),
+           mass: str = typer.Option(None, "--mass", metavar="MASS",
+                                    help="Its mass, if not the one recorded at installation."),
+           arm: str = typer.Option(None, "--arm", metavar="LENGTH", help="Its arm, likewise."),
+           lat_arm: str = typer.Option(None, "--lat-arm", metavar="LENGTH"),
+           vert_arm: str = typer.Option(None, "--vert-arm", metavar="LENGTH"),
+           reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+           reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
+           by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
+    """Record the removal of an installed item (with its recorded mass and arms)."""
+    from ledger.store.entries import remove_item
+
+    _recorded(ctx, as_json, lambda s: remove_item(
+        s, registration, item, mass=mass, arm=arm, lat_arm=lat_arm, vert_arm=vert_arm,
+        actor=common.actor(by), reason=reason, reference=reference, entry_date=entry_date))
+
+
+def correct(ctx: typer.Context, registration: str = REG_ARG,
+            seq: int = typer.Argument(..., metavar="SEQ", help="Entry to reverse."),
+            reason: str = typer.Option(None, "--reason", metavar="TEXT",
+                                       help="Why it is reversed (required)."),
+            reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
+            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
+    """Reverse an installation or removal with a new entry that says why."""
+    from ledger.store.entries import correct_entry
+
+    _recorded(ctx, as_json, lambda s: correct_entry(
+        s, registration, seq, reason=reason, actor=common.actor(by), reference=reference,
+        entry_date=entry_date))
+
+
+def history(ctx: typer.Context, registration: str = REG_ARG,
+            as_of: str = typer.Option(None, "--as-of", metavar="YYYY-MM-DD",
+                                      help="Show the record as it stood on this date."),
+            as_json: bool = common.JSON_OPTION) -> None:
+    """The running record: per entry the change, then empty mass, moment, CG and %MAC."""
+    from ledger.report.ledger import render_history
+    from ledger.store.db import session_scope
+    from ledger.store.views import history_view
+
+    with session_scope(common.state(ctx).engine()) as session:
+        data = history_view(session, registration, as_of=as_of)
+    common.emit(data, render_history, as_json)
+
+
+def verify(ctx: typer.Context,
+           registration: str = typer.Argument(None, metavar="[REG]",
+                                              help="One vehicle (default: every one)."),
+           expect: str = typer.Option(None, "--expect", metavar="HASH",
+                                      help="A head hash recorded earlier that the chain must "
+                                           "still contain (needs REG)."),
+           as_json: bool = common.JSON_OPTION) -> None:
+    """Check every hash chain; name the first entry that does not match (exit 1)."""
+    from ledger.errors import ChainError, InputError
+    from ledger.report.ledger import render_verify
+    from ledger.store.chain import verify_all, verify_vehicle
+    from ledger.store.db import session_scope
+
+    if expect and not registration:
+        raise InputError("--expect", expect, "needs a vehicle: wbledger verify REG --expect HASH")
+    with session_scope(common.state(ctx).engine()) as session:
+        reports = ([verify_vehicle(session, registration, expect_head=expect)] if registration
+                   else verify_all(session))
+    data = [r.to_dict() for r in reports]
+    common.emit(data, render_verify, as_json)
+    bad = [r for r in reports if not r.ok]
+    if bad:
+        raise ChainError(f"the chain of {bad[0].registration} does not verify: "
+                         f"{bad[0].problem}")
+
+
+def export(ctx: typer.Context, registration: str = REG_ARG,
+           fmt: str = typer.Option("csv", "--format", metavar="csv|json",
+                                   help="File format."),
+           output: Path = typer.Option(None, "-o", "--output", metavar="FILE",
+                                       help="Write to FILE (default: standard output).")) -> None:
+    """Export a vehicle's whole ledger, exactly (values, dates and hashes)."""
+    from ledger.store.db import session_scope
+    from ledger.store.transfer import export_history
+
+    with session_scope(common.state(ctx).engine()) as session:
+        text = export_history(session, registration, fmt)
+    if output is None:
+        typer.echo(text, nl=False)
+    else:
+        output.write_text(text, encoding="utf-8")
+        typer.echo(f"Wrote the ledger of {registration} to {output} ({fmt}).", err=True)
+
+
+def import_history(ctx: typer.Context, registration: str = REG_ARG,
+                   file: Path = typer.Argument(..., metavar="FILE",
+                                               help="A CSV or JSON history."),
+                   fmt: str = typer.Option(None, "--format", metavar="csv|json",
+                                           help="File format (default: from the file name)."),
+                   as_json: bool = common.JSON_OPTION) -> None:
+    """Append the entries of a history file to a vehicle's ledger, all or nothing."""
+    from ledger.errors import InputError
+    from ledger.report.ledger import render_import
+    from ledger.store.db import session_scope
+    from ledger.store.transfer import import_history as do_import
+
+    fmt = fmt or file.suffix.lower().lstrip(".")
+    if fmt not in ("csv", "json"):
+        raise InputError("--format", fmt, "csv or json (give --format when the file name "
+                         "does not end in .csv or .json)")
+    try:
+        text = file.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError("FILE", str(file), f"a readable UTF-8 file ({exc.__class__.__name__})") \
+            from None
+    with session_scope(common.state(ctx).engine()) as session:
+        summary = do_import(session, registration, text, fmt, source=file.name)
+    common.emit(summary.to_dict(), render_import, as_json)

@@ -1,0 +1,650 @@
+"""Export a vehicle's ledger to CSV or JSON and import one back, exactly.
+
+Both formats carry every stored column of every entry (:data:`COLUMNS`): SI values, floats
+written with Python's ``repr`` (which reads back to the same double), dates as ISO text,
+``recorded_at`` in UTC with microseconds, the detail as canonical JSON, and the hashes. So an
+export imported into an empty vehicle of the same registration reproduces every value and every
+hash, and exporting that again gives the same file.
+
+Import
+------
+:func:`import_history` appends the file's entries after the vehicle's newest entry. Each row is
+checked as if it were appended by hand (kinds, dates in order and not in the future, items
+installed before they are removed, corrections of entries that exist), its running totals are
+computed, and the hash chain is continued. Columns a person writing a file by hand may leave out
+or empty: ``seq``, ``recorded_at`` (then: now), the deltas, running totals, ``baseline_seq``,
+``z_known`` (except for weighings with a vertical CG) and the hashes. When they are given they
+must agree with what the ledger computes (floats to a relative 1e-9); the hashes must agree
+exactly, so an exported file that was edited is refused (remove the two hash columns to import
+an edited file, or one exported from another registration).
+
+A bad row is reported as ``FILE line N: FIELD = VALUE: what is allowed`` and nothing of that
+import is written: every row is checked before the first insert, and the inserts run in the
+caller's one transaction. Inserts go through SQLAlchemy Core ``executemany`` in chunks.
+"""
+
+from __future__ import annotations
+
+import csv
+import datetime as dt
+import io
+import json
+import math
+from collections.abc import Callable, Iterable, Mapping
+from dataclasses import dataclass
+from typing import Any
+
+from sqlalchemy import insert, select
+from sqlalchemy.orm import Session
+
+from ledger.errors import InputError
+from ledger.store.chain import (
+    ABSOLUTE_KINDS,
+    GENESIS_HASH,
+    canonical_json,
+    content_hash,
+    utc_text,
+)
+from ledger.store.models import ENTRY_KINDS, LedgerEntryRow
+
+__all__ = [
+    "COLUMNS",
+    "FORMATS",
+    "ImportSummary",
+    "export_history",
+    "parse_history",
+    "import_history",
+    "import_entries",
+]
+
+FORMAT_NAME = "wbledger-history"
+FORMAT_VERSION = 1
+FORMATS = ("csv", "json")
+
+#: Columns of an exported history, in file order.
+COLUMNS = (
+    "seq", "kind", "entry_date", "recorded_at", "actor", "reason", "reference", "item",
+    "item_mass_kg", "item_x_m", "item_y_m", "item_z_m",
+    "delta_mass_kg", "delta_mx_kgm", "delta_my_kgm", "delta_mz_kgm",
+    "empty_mass_kg", "empty_mx_kgm", "empty_my_kgm", "empty_mz_kgm",
+    "z_known", "baseline_seq", "reverses_seq", "detail_json", "prev_hash", "entry_hash",
+)
+_FLOAT_COLS = frozenset(c for c in COLUMNS if c.endswith(("_kg", "_m", "_kgm")))
+_INT_COLS = frozenset({"seq", "z_known", "baseline_seq", "reverses_seq"})
+_COMPUTED_FLOATS = frozenset({"delta_mass_kg", "delta_mx_kgm", "delta_my_kgm", "delta_mz_kgm",
+                              "empty_mass_kg", "empty_mx_kgm", "empty_my_kgm", "empty_mz_kgm"})
+_COMPUTED_INTS = frozenset({"baseline_seq", "z_known"})
+_E = LedgerEntryRow
+CHUNK = 5000
+
+
+# --- export ---------------------------------------------------------------------------------
+
+def _export_rows(session: Session, registration: str):
+    from ledger.store.catalog import get_vehicle
+
+    vehicle = get_vehicle(session, registration)
+    cols = [getattr(_E, c) for c in COLUMNS]
+    rows = session.execute(select(*cols).where(_E.vehicle_id == vehicle.id).order_by(_E.seq)
+                           .execution_options(yield_per=5000))
+    return vehicle, rows
+
+
+def _cell(name: str, value) -> str:
+    if value is None:
+        return ""
+    if name in _FLOAT_COLS:
+        return repr(float(value) + 0.0)
+    if name == "entry_date":
+        return value.isoformat()
+    if name == "recorded_at":
+        return utc_text(value)
+    return str(value)
+
+
+def _json_value(name: str, value):
+    if value is None:
+        return None
+    if name in _FLOAT_COLS:
+        return float(value) + 0.0
+    if name in _INT_COLS:
+        return int(value)
+    if name == "entry_date":
+        return value.isoformat()
+    if name == "recorded_at":
+        return utc_text(value)
+    return value
+
+
+def export_history(session: Session, registration: str, fmt: str) -> str:
+    """A vehicle's whole ledger as CSV or JSON text (see the module notes).
+
+    The JSON document is ``{"format": "wbledger-history", "version": 1, "registration": …,
+    "type": …, "head_hash": …, "entries": [{column: value, …, "detail": {…}}]}`` with one entry
+    per line; CSV has a header row with :data:`COLUMNS`.
+    """
+    if fmt not in FORMATS:
+        raise InputError("--format", fmt, "csv or json")
+    vehicle, rows = _export_rows(session, registration)
+    if fmt == "csv":
+        buf = io.StringIO()
+        w = csv.writer(buf, lineterminator="\n")
+        w.writerow(COLUMNS)
+        for row in rows:
+            w.writerow([_cell(n, v) for n, v in zip(COLUMNS, row)])
+        return buf.getvalue()
+    from ledger.store.models import VehicleTypeRow
+
+    tname = session.scalar(select(VehicleTypeRow.name)
+                           .where(VehicleTypeRow.id == vehicle.type_id))
+    lines = []
+    head = None
+    for row in rows:
+        doc = {}
+        for n, v in zip(COLUMNS, row):
+            if n == "detail_json":
+                doc["detail"] = json.loads(v)
+            else:
+                doc[n] = _json_value(n, v)
+        head = doc["entry_hash"]
+        lines.append(json.dumps(doc, ensure_ascii=False, allow_nan=False))
+    header = json.dumps({"format": FORMAT_NAME, "version": FORMAT_VERSION,
+                         "registration": vehicle.registration, "type": tname,
+                         "head_hash": head}, ensure_ascii=False)
+    body = ",\n".join(lines)
+    return header[:-1] + ',\n"entries": [\n' + body + ("\n" if lines else "") + "]}\n"
+
+
+# --- parse ----------------------------------------------------------------------------------
+
+def _json_entry_lines(text: str, count: int) -> list[int] | None:
+    """Line numbers where the elements of the top-level "entries" array start (best effort)."""
+    decoder = json.JSONDecoder()
+    try:
+        obj, _ = decoder.raw_decode(text.lstrip())
+        at = text.index('"entries"')
+        pos = text.index("[", at) + 1
+        out = []
+        ws = " \t\r\n,"
+        for _ in range(count):
+            while text[pos] in ws:
+                pos += 1
+            out.append(text.count("\n", 0, pos) + 1)
+            _, pos = decoder.raw_decode(text, pos)
+        return out
+    except (ValueError, IndexError):
+        return None
+
+
+def parse_history(text: str, fmt: str, *, source: str = "file") -> list[tuple[int, dict]]:
+    """Read an exported (or hand-written) history: ``[(line number, {column: value})]``.
+
+    CSV values are text ("" for empty); JSON values keep their JSON types. The line number is
+    where the row (or the entry's object) starts in the file.
+    """
+    if fmt not in FORMATS:
+        raise InputError("--format", fmt, "csv or json")
+    if fmt == "csv":
+        reader = csv.reader(io.StringIO(text, newline=""))
+        try:
+            header = next(reader)
+        except StopIteration:
+            raise InputError("header", "", "a header row naming the columns: "
+                             + ", ".join(COLUMNS[:8]) + ", …", source=f"{source} line 1") from None
+        except csv.Error as exc:
+            raise InputError("header", "", f"not valid CSV ({exc})",
+                             source=f"{source} line 1") from None
+        header = [h.strip() for h in header]
+        for h in header:
+            if h not in COLUMNS:
+                raise InputError("column", h, "a column of a wbledger history: "
+                                 + ", ".join(COLUMNS), source=f"{source} line 1")
+        for h in ("kind", "entry_date", "actor"):
+            if h not in header:
+                raise InputError("column", h, "required: the header must name it",
+                                 source=f"{source} line 1")
+        out = []
+        start = reader.line_num + 1
+        try:
+            for row in reader:
+                if not row or all(not c.strip() for c in row):
+                    start = reader.line_num + 1
+                    continue
+                if len(row) != len(header):
+                    raise InputError("row", ",".join(row)[:40],
+                                     f"{len(header)} values, one per column (it has {len(row)})",
+                                     source=f"{source} line {start}")
+                out.append((start, dict(zip(header, row))))
+                start = reader.line_num + 1
+        except csv.Error as exc:
+            raise InputError("row", "", f"not valid CSV ({exc})",
+                             source=f"{source} line {reader.line_num}") from None
+        return out
+    try:
+        doc = json.loads(text)
+    except json.JSONDecodeError as exc:
+        raise InputError("document", "", f"not valid JSON: {exc.msg}",
+                         source=f"{source} line {exc.lineno}") from None
+    if not isinstance(doc, dict) or not isinstance(doc.get("entries"), list):
+        raise InputError("entries", type(doc).__name__, 'a JSON object with an "entries" list',
+                         source=source)
+    if doc.get("format", FORMAT_NAME) != FORMAT_NAME:
+        raise InputError("format", doc.get("format"), f"{FORMAT_NAME!r}", source=source)
+    if doc.get("version", FORMAT_VERSION) != FORMAT_VERSION:
+        raise InputError("version", doc.get("version"), f"{FORMAT_VERSION}", source=source)
+    entries = doc["entries"]
+    lines = _json_entry_lines(text, len(entries))
+    out = []
+    for i, e in enumerate(entries):
+        where = lines[i] if lines else None
+        if not isinstance(e, dict):
+            raise InputError(f"entries[{i}]", type(e).__name__, "a JSON object",
+                             source=f"{source} line {where}" if where else source)
+        rec = dict(e)
+        if "detail" in rec:
+            if "detail_json" in rec:
+                raise InputError(f"entries[{i}].detail", "…", "detail or detail_json, not both",
+                                 source=f"{source} line {where}" if where else source)
+            rec["detail_json"] = rec.pop("detail")
+        for k in rec:
+            if k not in COLUMNS:
+                raise InputError(k, rec[k] if isinstance(rec[k], (str, int, float)) else "…",
+                                 "a field of a wbledger history entry: " + ", ".join(COLUMNS),
+                                 source=f"{source} line {where}" if where else source)
+        out.append((where or i + 1, rec))
+    return out
+
+
+# --- import ---------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class ImportSummary:
+    registration: str
+    imported: int
+    first_seq: int | None
+    last_seq: int | None
+    head_hash: str | None
+
+    def to_dict(self) -> dict:
+        return {"registration": self.registration, "imported": self.imported,
+                "first_seq": self.first_seq, "last_seq": self.last_seq,
+                "head_hash": self.head_hash}
+
+
+class _Row:
+    """Converts the fields of one record, raising errors located at its line."""
+
+    __slots__ = ("rec", "where")
+
+    def __init__(self, rec: Mapping[str, Any], where: str) -> None:
+        self.rec = rec
+        self.where = where
+
+    def err(self, field: str, value, allowed: str, hint: str | None = None) -> InputError:
+        return InputError(field, value, allowed, source=self.where, hint=hint)
+
+    def raw(self, name: str):
+        v = self.rec.get(name)
+        if isinstance(v, str):
+            v = v.strip()
+            if v == "":
+                return None
+        return v
+
+    def num(self, name: str, *, required: bool = False, what: str = "a finite number"):
+        v = self.rec.get(name)
+        if v.__class__ is float:  # the common case (JSON), checked without a conversion
+            if v - v == 0.0:
+                return v + 0.0
+            raise self.err(name, v, what)
+        if v is None or v == "":
+            if required:
+                raise self.err(name, "", f"required: {what}")
+            return None
+        if isinstance(v, bool):
+            raise self.err(name, v, what)
+        try:
+            f = float(v)
+        except (TypeError, ValueError):
+            raise self.err(name, v, what) from None
+        if not math.isfinite(f):
+            raise self.err(name, v, what)
+        return f + 0.0
+
+    def int(self, name: str, *, required: bool = False, what: str = "a whole number"):
+        v = self.rec.get(name)
+        if v.__class__ is int:
+            return v
+        if isinstance(v, str):
+            v = v.strip() or None
+        if v is None:
+            if required:
+                raise self.err(name, "", f"required: {what}")
+            return None
+        if isinstance(v, bool):
+            raise self.err(name, v, what)
+        try:
+            return int(str(v))
+        except ValueError:
+            raise self.err(name, v, what) from None
+
+    def text(self, name: str, *, required: bool = False, max_len: int = 200):
+        v = self.rec.get(name)
+        if v.__class__ is str:
+            if v and not (v[0].isspace() or v[-1].isspace()):
+                if len(v) > max_len:
+                    raise self.err(name, v[:40] + "…", f"at most {max_len} characters")
+                return v
+            v = v.strip() or None
+        if v is None:
+            if required:
+                raise self.err(name, "", "required: a non-empty text")
+            return None
+        if not isinstance(v, str):
+            raise self.err(name, v, "a text")
+        if len(v) > max_len:
+            raise self.err(name, v[:40] + "…", f"at most {max_len} characters")
+        return v
+
+
+def _close(a: float, b: float) -> bool:
+    return a == b or abs(a - b) <= 1e-9 * max(abs(a), abs(b)) + 1e-9
+
+
+def _parse_recorded(row: _Row, now: dt.datetime) -> dt.datetime:
+    v = row.raw("recorded_at")
+    if v is None:
+        return now
+    if not isinstance(v, str):
+        raise row.err("recorded_at", v, "a UTC timestamp such as 2026-03-01T10:00:00.000000Z")
+    text = v[:-1] + "+00:00" if v.endswith("Z") else v
+    try:
+        t = dt.datetime.fromisoformat(text)
+    except ValueError:
+        raise row.err("recorded_at", v, "a UTC timestamp such as "
+                      "2026-03-01T10:00:00.000000Z") from None
+    if t.tzinfo is None:
+        t = t.replace(tzinfo=dt.timezone.utc)
+    return t.astimezone(dt.timezone.utc)
+
+
+def import_entries(session: Session, registration: str, records: Iterable[tuple[int, Mapping]],
+                   *, source: str = "file",
+                   progress: Callable[[int], None] | None = None,
+                   chunk: int = CHUNK) -> ImportSummary:
+    """Append ``records`` (from :func:`parse_history`) to a vehicle's ledger, all or nothing.
+
+    Every record is checked and its hash computed before anything is inserted; then the rows go
+    in with Core ``executemany`` in chunks of ``chunk``, calling ``progress(rows written so
+    far)`` after each. Runs in the caller's transaction (commit or roll back around it).
+
+    Raises
+    ------
+    InputError
+        The first bad record, located ``FILE line N``; nothing is written.
+    """
+    from ledger.store.catalog import get_vehicle
+    from ledger.store.entries import _head, parse_date
+
+    vehicle = get_vehicle(session, registration, lock=True)
+    reg = vehicle.registration
+    vid = vehicle.id
+    head = _head(session, vid)
+    if head is None:
+        seq, prev_date, prev_hash, base = 0, None, GENESIS_HASH, None
+        pm = pmx = pmy = pmz = 0.0
+        p_zk = 0
+    else:
+        seq, prev_date, pm, pmx, pmy, pmz, p_zk, base, prev_hash = head
+    # Item states and reversals already in the ledger, for removals and corrections.
+    item_last: dict[str, tuple] = {}   # name -> (seq, installed?, m, x, y, z, shape)
+    reversed_: set[int] = set()
+    targets: dict[int, tuple] = {}     # seq -> (kind, item, m, x, y, z, dm, dmx, dmy, dmz, shape)
+    if head is not None:
+        for (s_, kind, item, m, x, y, z, dm, dmx, dmy, dmz, zk, rev, detail) in session.execute(
+                select(_E.seq, _E.kind, _E.item, _E.item_mass_kg, _E.item_x_m, _E.item_y_m,
+                       _E.item_z_m, _E.delta_mass_kg, _E.delta_mx_kgm, _E.delta_my_kgm,
+                       _E.delta_mz_kgm, _E.z_known, _E.reverses_seq, _E.detail_json)
+                .where(_E.vehicle_id == vid, _E.item.is_not(None)).order_by(_E.seq)):
+            d = json.loads(detail)
+            installs = kind == "install" or (kind == "correction"
+                                             and d.get("reverses_kind") == "remove")
+            item_last[item] = (s_, installs, m, x, y, z, d.get("shape"))
+            targets[s_] = (kind, item, m, x, y, z, dm, dmx, dmy, dmz, d.get("shape"))
+            if rev is not None:
+                reversed_.add(rev)
+    today = dt.date.today()
+    now = dt.datetime.now(dt.timezone.utc)
+    dates: dict[str, dt.date] = {}
+    out: list[dict] = []
+    for line, rec in records:
+        row = _Row(rec, f"{source} line {line}")
+        seq += 1
+        given_seq = row.int("seq", what="the entry number")
+        if given_seq is not None and given_seq != seq:
+            hint = ("the file continues the ledger after its newest entry"
+                    if seq > 1 else "the first entry of a vehicle is entry 1")
+            raise row.err("seq", given_seq, f"entry {seq} here", hint=hint.capitalize())
+        kind = row.text("kind", required=True)
+        if kind not in ENTRY_KINDS:
+            raise row.err("kind", kind, "one of " + ", ".join(ENTRY_KINDS))
+        raw_date = rec.get("entry_date")
+        day = dates.get(raw_date) if raw_date.__class__ is str else None
+        if day is None:
+            raw_date = row.raw("entry_date")
+            if raw_date is None:
+                raise row.err("entry_date", "", "required: a date written YYYY-MM-DD")
+            try:
+                day = parse_date(raw_date, field="entry_date", today=today)
+            except InputError as exc:
+                raise exc.with_source(row.where) from None
+            if raw_date.__class__ is str:
+                dates[raw_date] = day
+        if prev_date is not None and day < prev_date:
+            raise row.err("entry_date", day.isoformat(),
+                          f"a date on or after that of entry {seq - 1} ({prev_date}): entries "
+                          "are kept in date order")
+        recorded = _parse_recorded(row, now)
+        actor = row.text("actor", required=True)
+        reason = row.text("reason", max_len=4000)
+        reference = row.text("reference")
+        item = row.text("item")
+        raw_detail = rec.get("detail_json")
+        if raw_detail is None or raw_detail == "":
+            detail = {}
+        elif isinstance(raw_detail, dict):
+            detail = raw_detail
+        elif isinstance(raw_detail, str):
+            try:
+                detail = json.loads(raw_detail)
+            except json.JSONDecodeError as exc:
+                raise row.err("detail_json", raw_detail[:40], f"a JSON object ({exc.msg})") \
+                    from None
+            if not isinstance(detail, dict):
+                raise row.err("detail_json", raw_detail[:40], "a JSON object")
+        else:
+            raise row.err("detail_json", type(raw_detail).__name__, "a JSON object")
+        im = ix = iy = iz = None
+        rev_seq = None
+        if seq == 1 and kind != "weighing":
+            raise row.err("kind", kind, "weighing: the first entry of a vehicle is a weighing")
+        if kind in ABSOLUTE_KINDS:
+            m = row.num("empty_mass_kg", required=True, what="the empty mass in kg, above 0")
+            mx = row.num("empty_mx_kgm", required=True, what="the empty moment x in kg*m")
+            my = row.num("empty_my_kgm", required=True, what="the empty moment y in kg*m")
+            zk = row.int("z_known", what="0 or 1")
+            if zk not in (None, 0, 1):
+                raise row.err("z_known", zk, "0 or 1")
+            mz_given = row.num("empty_mz_kgm", what="the empty moment z in kg*m")
+            if kind == "cg_height" or (zk is None and mz_given is not None):
+                zk = 1
+            if zk == 1:
+                if mz_given is None:
+                    raise row.err("empty_mz_kgm", "", "required when z_known is 1")
+                mz, z_known = mz_given, 1
+            else:
+                mz, z_known = 0.0, 0
+            dm, dmx, dmy, dmz = m - pm, mx - pmx, my - pmy, mz - pmz
+        else:
+            if item is None:
+                raise row.err("item", "", f"required for a {kind}")
+            state = item_last.get(item)
+            if kind == "install":
+                if state is not None and state[1]:
+                    raise row.err("item", item, f"an item not installed already (entry "
+                                  f"{state[0]} installed it); remove it first")
+                im = row.num("item_mass_kg", required=True, what="the item's mass in kg, "
+                             "0 or more")
+                ix = row.num("item_x_m", required=True, what="the item's arm x in m")
+                iy = row.num("item_y_m") or 0.0
+                iz = row.num("item_z_m")
+                if im < 0:
+                    raise row.err("item_mass_kg", rec.get("item_mass_kg"), "a mass of 0 kg or more")
+                d = (im, im * ix, im * iy, None if iz is None else im * iz)
+                item_last[item] = (seq, True, im, ix, iy, iz, detail.get("shape"))
+            elif kind == "remove":
+                if state is None or not state[1]:
+                    raise row.err("item", item, "an item installed before this entry and not "
+                                  "removed since")
+                _s, _on, m0, x0, y0, z0, shape0 = state
+                im = row.num("item_mass_kg")
+                im = m0 if im is None else im
+                ix = row.num("item_x_m")
+                ix = x0 if ix is None else ix
+                iy = row.num("item_y_m")
+                iy = y0 if iy is None else iy
+                iz = row.num("item_z_m")
+                iz = z0 if iz is None else iz
+                if im < 0:
+                    raise row.err("item_mass_kg", rec.get("item_mass_kg"), "a mass of 0 kg or more")
+                d = (-im, -im * ix, -im * iy, None if iz is None else -im * iz)
+                item_last[item] = (seq, False, im, ix, iy, iz, shape0)
+            else:  # correction
+                rev_seq = row.int("reverses_seq", required=True,
+                                  what="the number of the entry it reverses")
+                tgt = targets.get(rev_seq)
+                if tgt is None or tgt[0] not in ("install", "remove"):
+                    raise row.err("reverses_seq", rev_seq,
+                                  "an earlier installation or removal of this vehicle")
+                if rev_seq in reversed_:
+                    raise row.err("reverses_seq", rev_seq, "an entry not reversed already")
+                tkind, titem, im, ix, iy, iz, tdm, tdmx, tdmy, tdmz, tshape = tgt
+                if item != titem:
+                    raise row.err("item", item, f"{titem!r}, the item of entry {rev_seq}")
+                if state is None or state[0] != rev_seq:
+                    raise row.err("reverses_seq", rev_seq,
+                                  f"an entry whose item was not changed since (entry "
+                                  f"{state[0] if state else '?'} changed {item!r})")
+                if detail.setdefault("reverses_kind", tkind) != tkind:
+                    raise row.err("detail_json", f"reverses_kind={detail['reverses_kind']}",
+                                  f"reverses_kind {tkind!r}, the kind of entry {rev_seq}")
+                d = (-tdm, -tdmx, -tdmy, None if iz is None else -tdmz)
+                reversed_.add(rev_seq)
+                item_last[item] = (seq, tkind == "remove", im, ix, iy, iz, tshape)
+            dm, dmx, dmy = d[0] + 0.0, d[1] + 0.0, d[2] + 0.0
+            z_known = int(bool(p_zk) and d[3] is not None)
+            dmz = 0.0 if d[3] is None else d[3] + 0.0
+            m, mx, my, mz = pm + dm, pmx + dmx, pmy + dmy, pmz + dmz
+            targets[seq] = (kind, item, im, ix, iy, iz, dm, dmx, dmy, dmz, detail.get("shape"))
+        if not m > 0:
+            raise row.err("empty_mass_kg", m, "an empty mass above 0 kg after this entry")
+        try:
+            detail_json = canonical_json(detail) if detail else "{}"
+        except (ValueError, TypeError):
+            raise row.err("detail_json", "…", "JSON without NaN or infinity") from None
+        base = seq if kind == "weighing" else base
+        values = {
+            "vehicle_id": vid, "seq": seq, "kind": kind, "entry_date": day,
+            "recorded_at": recorded, "actor": actor, "reason": reason, "reference": reference,
+            "item": item, "item_mass_kg": im, "item_x_m": ix, "item_y_m": iy, "item_z_m": iz,
+            "delta_mass_kg": dm, "delta_mx_kgm": dmx, "delta_my_kgm": dmy, "delta_mz_kgm": dmz,
+            "empty_mass_kg": m, "empty_mx_kgm": mx, "empty_my_kgm": my, "empty_mz_kgm": mz,
+            "z_known": z_known, "baseline_seq": base, "reverses_seq": rev_seq,
+            "detail_json": detail_json, "prev_hash": prev_hash,
+        }
+        for name in _COMPUTED_FLOATS.intersection(rec):
+            given = row.num(name)
+            if given is not None and not _close(given, values[name]):
+                raise row.err(name, given, f"{values[name]!r}, as the ledger computes it",
+                              hint="Leave the column empty to have it computed")
+        for name in _COMPUTED_INTS.intersection(rec):
+            given = row.int(name)
+            if given is not None and given != values[name]:
+                raise row.err(name, given, f"{values[name]}, as the ledger computes it",
+                              hint="Leave the column empty to have it computed")
+        given_prev = row.raw("prev_hash")
+        if given_prev is not None and given_prev != prev_hash:
+            raise row.err("prev_hash", given_prev[:12] + "…",
+                          f"the hash of entry {seq - 1} in this ledger ({prev_hash[:12]}…)",
+                          hint="Remove the prev_hash and entry_hash columns to import it as "
+                               "new entries")
+        digest = content_hash(values, reg)
+        given_hash = row.raw("entry_hash")
+        if given_hash is not None and given_hash != digest:
+            raise row.err("entry_hash", given_hash[:12] + "…",
+                          "the hash of the row's content under this registration: the row "
+                          "was changed after export, or it was exported from another vehicle",
+                          hint="Remove the prev_hash and entry_hash columns to import it as "
+                               "new entries")
+        values["entry_hash"] = digest
+        out.append(values)
+        pm, pmx, pmy, pmz, p_zk = m, mx, my, mz, z_known
+        prev_date, prev_hash = day, digest
+    _insert_rows(session.connection(), out, chunk, progress)
+    first = out[0]["seq"] if out else None
+    return ImportSummary(reg, len(out), first, out[-1]["seq"] if out else None,
+                         out[-1]["entry_hash"] if out else None)
+
+
+def _insert_rows(conn, rows: list[dict], chunk: int,
+                 progress: Callable[[int], None] | None) -> None:
+    """Insert ``rows`` in chunks, one ``executemany`` each, in the connection's transaction.
+
+    On SQLite the rows go to the driver as tuples, with dates and timestamps converted by
+    SQLAlchemy's own SQLite bind processors (so they are stored exactly as the ORM stores
+    them, and read back the same), each distinct value once: this skips SQLAlchemy's per-row
+    parameter processing, which otherwise costs more than the insert itself. Elsewhere it is a
+    plain Core ``executemany`` of the dicts.
+    """
+    table = _E.__table__
+    written = 0
+    if conn.dialect.name != "sqlite":
+        stmt = insert(table)
+        for i in range(0, len(rows), chunk):
+            part = rows[i:i + chunk]
+            conn.execute(stmt, part)
+            written += len(part)
+            if progress is not None:
+                progress(written)
+        return
+    cols = [c.name for c in table.columns if c.name != "id"]
+    sql = (f"INSERT INTO {table.name} ({', '.join(cols)}) "
+           f"VALUES ({', '.join('?' for _ in cols)})")
+    converters = []
+    for k, name in enumerate(cols):
+        proc = table.c[name].type.dialect_impl(conn.dialect).bind_processor(conn.dialect)
+        if proc is not None:
+            converters.append((k, proc, {}))
+    for i in range(0, len(rows), chunk):
+        batch = []
+        for r in rows[i:i + chunk]:
+            t = [r[c] for c in cols]
+            for k, proc, cache in converters:
+                v = t[k]
+                done = cache.get(v)
+                if done is None:
+                    done = cache[v] = proc(v)
+                t[k] = done
+            batch.append(tuple(t))
+        conn.exec_driver_sql(sql, batch)
+        written += len(batch)
+        if progress is not None:
+            progress(written)
+
+
+def import_history(session: Session, registration: str, text: str, fmt: str, *,
+                   source: str = "file",
+                   progress: Callable[[int], None] | None = None) -> ImportSummary:
+    """Parse ``text`` (CSV or JSON) and append its entries to the vehicle, all or nothing."""
+    records = parse_history(text, fmt, source=source)
+    return import_entries(session, registration, records, source=source, progress=progress)
