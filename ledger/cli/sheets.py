@@ -263,16 +263,10 @@ def check(ctx: typer.Context, target: str = PLAN_ARG,
         doc = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw)).document
 
     def render(d):
-        reg = d["vehicle"]["registration"]
-        ok = d["verdict"] == "in_limits"
-        typer.echo(f"{reg}: {'IN LIMITS' if ok else 'OUT OF LIMITS'}")
-        for v in d["violations"]:
-            typer.echo(f"  - {v['message']}")
-        for f in d["fixes"]:
-            typer.echo(f"  fix: {f['description']}")
-        if not ok and d.get("fixes_note"):
-            typer.echo(f"  {d['fixes_note']}")
-        typer.echo(d["caution"])
+        from ledger.report.sheet_text import check_lines
+
+        for line in check_lines(d):
+            typer.echo(line)
 
     common.emit(doc, render, as_json)
     _exit_for(doc)

@@ -872,3 +872,35 @@ def sheet_text(doc: dict, width: int = 80) -> str:
                       highlight=False, legacy_windows=False, emoji=False)
     render_sheet(doc, console=console, width=width)
     return "".join(line.rstrip() + "\n" for line in buf.getvalue().splitlines())
+
+
+def check_lines(doc: dict, width: int = 80) -> list[str]:
+    """The short text of ``wbledger check``: verdict, violations, fixes, caution (``width`` wide).
+
+    Examples
+    --------
+    >>> doc = {"vehicle": {"registration": "X-1"}, "verdict": "in_limits", "violations": [],
+    ...        "fixes": [], "caution": "CAUTION: not approved data."}
+    >>> check_lines(doc)
+    ['X-1: IN LIMITS', 'CAUTION: not approved data.']
+    """
+    import textwrap
+
+    ok = doc["verdict"] == "in_limits"
+    lines = [f"{doc['vehicle']['registration']}: {'IN LIMITS' if ok else 'OUT OF LIMITS'}"]
+
+    def wrapped(text: str, first: str, rest: str) -> list[str]:
+        return textwrap.wrap(text, width, initial_indent=first, subsequent_indent=rest,
+                             break_on_hyphens=False)
+
+    for v in doc["violations"]:
+        lines += wrapped(v["message"], "  - ", "    ")
+    if doc["fixes"]:
+        if doc.get("fixes_note"):
+            lines += wrapped(doc["fixes_note"], "  ", "  ")
+        for f in doc["fixes"]:
+            lines += wrapped(f["description"], "  fix: ", "       ")
+    elif not ok and doc.get("fixes_note"):
+        lines += wrapped(doc["fixes_note"], "  ", "  ")
+    lines += wrapped(doc["caution"], "", "")
+    return lines
