@@ -14,7 +14,7 @@ import io
 from ledger.units import to_unit
 
 __all__ = ["render_corners", "render_cg_height", "render_rule_list", "render_rule_set",
-           "as_text"]
+           "as_text", "simple_table"]
 
 _MASS_DEC = {"kg": 1, "lb": 0, "g": 0, "t": 3, "slug": 2}
 _LEN_DEC = {"m": 3, "mm": 0, "cm": 1, "in": 2, "ft": 3}
@@ -49,7 +49,8 @@ def _console(console, width):
     return console if console is not None else Console(width=width, highlight=False)
 
 
-def _table(headers, rows, numeric=()):
+def simple_table(headers, rows, numeric=()):
+    """A plain rich table: bold header, one rule under it, numeric columns right-aligned."""
     from rich import box
     from rich.table import Table
 
@@ -100,7 +101,7 @@ def render_corners(doc: dict, console=None, width: int = 80) -> None:
     _title(console, "Corner weights" + (f": {who}" if who else ""), w)
     r = doc["readings_kg"]
     pct = {k: 100.0 * v / doc["total_kg"] for k, v in r.items()}
-    console.print(_table(["", "left", "right", "axle"], [
+    console.print(simple_table(["", "left", "right", "axle"], [
         ["front", f"{_mass(r['LF'], mu)} ({pct['LF']:.2f} %)",
          f"{_mass(r['RF'], mu)} ({pct['RF']:.2f} %)", _mass(doc["front_kg"], mu)],
         ["rear", f"{_mass(r['LR'], mu)} ({pct['LR']:.2f} %)",
@@ -147,7 +148,7 @@ def render_cg_height(doc: dict, console=None, width: int = 80) -> None:
     for i, r in enumerate(doc["readings"], 1):
         rows.append([str(i), f"{r['angle_deg']:.2f}°", _mass(r[f"{g}_tilted_kg"], mu),
                      _mass(r["load_change_kg"], mu), _len(r["height_m"], lu)])
-    console.print(_table(["", "angle", f"{g} axle", "change", "height"], rows,
+    console.print(simple_table(["", "angle", f"{g} axle", "change", "height"], rows,
                          numeric=(1, 2, 3, 4)), width=w)
     lines = [["CG height", _len(doc["height_m"], lu) + " above the ground"],
              ["residual (RMS)", _mass(doc["residual_rms_kg"], mu) + f" on the {g} axle"],
@@ -183,7 +184,7 @@ def render_rule_list(rows: list[dict], console=None, width: int = 80) -> None:
     if not rows:
         console.print("No axle rule sets found.", width=w)
         return
-    console.print(_table(["name", "title", "where"],
+    console.print(simple_table(["name", "title", "where"],
                          [[r["name"], r["title"], "built in" if r["builtin"] else r["path"]]
                           for r in rows]), width=w)
     from ledger.report.caution import GROUND_CAUTION
@@ -229,7 +230,8 @@ def render_rule_set(doc: dict, console=None, width: int = 80) -> None:
                 for r in tab["rows"]]
         console.print(Text("Most a group of N consecutive axles may carry, lb (L between "
                            "the outer axles):", style="bold"), width=w, overflow="fold")
-        console.print(_table(headers, body, numeric=tuple(range(1, len(headers)))), width=w)
+        console.print(simple_table(headers, body, numeric=tuple(range(1, len(headers)))),
+                      width=w)
         console.print(Text(tab["note"] + "; blank: N axles do not fit, or the single-axle "
                            "limits govern.", style="dim"), width=w, overflow="fold")
     console.print(Text(doc["caution"], style="italic"), width=w, overflow="fold")

@@ -198,14 +198,7 @@ def render_inertia(doc: dict, console=None, width: int = 80) -> None:
         console.print(Rule(Text(f" {title.upper()} ", style="bold"), align="left",
                            characters="\u2500"), width=w)
 
-    def table(headers, rows, numeric=()):
-        t = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False, padding=(0, 1),
-                  header_style="bold")
-        for i, h in enumerate(headers):
-            t.add_column(h, justify="right" if i in numeric else "left", overflow="fold")
-        for r in rows:
-            t.add_row(*r)
-        return t
+    from ledger.report.ground import simple_table as table
 
     v = doc.get("vehicle") or {}
     c = doc.get("condition") or {}

@@ -46,6 +46,7 @@ from sqlalchemy.orm import Session
 
 from ledger.errors import ConflictError, InputError, NotFoundError
 from ledger.store.chain import ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash
+from ledger.typedata.model import SHAPE_DIMENSIONS
 from ledger.store.models import (
     ENTRY_KINDS,
     LedgerEntryRow,
@@ -337,16 +338,6 @@ def _length(value, units, field: str) -> float:
     return _quantity(value, "length", units.length if units else None, field)
 
 
-#: Dimensions of each shape kind (as in the type-file format), in the order a user gives them.
-_SHAPE_DIMS = {
-    "point": (),
-    "box": ("length", "width", "height"),
-    "cylinder": ("radius", "length", "axis"),
-    "hollow_cylinder": ("radius", "inner_radius", "length", "axis"),
-    "disk": ("radius", "axis"),
-    "rod": ("length", "axis"),
-    "sphere": ("radius",),
-}
 
 
 def parse_shape(spec, units=None, *, field: str = "--shape") -> dict | None:
@@ -381,9 +372,9 @@ def parse_shape(spec, units=None, *, field: str = "--shape") -> dict | None:
                 raise InputError(field, spec, "KIND,KEY=VALUE,… e.g. box,length=20 in,"
                                  "width=12 in,height=8 in")
             raw[key.strip()] = val.strip()
-    if kind not in _SHAPE_DIMS:
-        raise InputError(field, kind, "one of " + ", ".join(_SHAPE_DIMS))
-    dims = _SHAPE_DIMS[kind]
+    if kind not in SHAPE_DIMENSIONS:
+        raise InputError(field, kind, "one of " + ", ".join(SHAPE_DIMENSIONS))
+    dims = SHAPE_DIMENSIONS[kind]
     out: dict[str, Any] = {"kind": kind}
     for key in raw:
         base = key[:-2] if key.endswith("_m") else key

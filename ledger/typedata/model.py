@@ -36,6 +36,7 @@ __all__ = [
     "ENVELOPE_COORDINATES",
     "FLUIDS",
     "OCCUPANT_CLASSES",
+    "SHAPE_DIMENSIONS",
     "SHAPE_KINDS",
     "STANDARD_MASS_SETS",
     "STATION_KINDS",
@@ -75,6 +76,16 @@ ENVELOPE_COORDINATES = ("arm", "moment")
 CONFIGURATION_ACTIONS = ("install", "remove")
 SHAPE_KINDS = ("point", "box", "cylinder", "hollow_cylinder", "disk", "rod", "sphere")
 SHAPE_AXES = ("x", "y", "z")
+#: The dimensions each shape kind takes, in the order a user gives them (type files, --shape).
+SHAPE_DIMENSIONS = {
+    "point": (),
+    "box": ("length", "width", "height"),
+    "cylinder": ("radius", "length", "axis"),
+    "hollow_cylinder": ("radius", "inner_radius", "length", "axis"),
+    "disk": ("radius", "axis"),
+    "rod": ("length", "axis"),
+    "sphere": ("radius",),
+}
 
 _LB = 0.45359237  # kg, exact (NIST SP 811 appendix B)
 _LB_PER_USGAL = _LB / 3.785411784e-3  # kg/m3 per lb/USgal

@@ -21,6 +21,7 @@ import tomllib
 from ledger import units as U
 from ledger.errors import InputError, NotFoundError, TypeDataError
 from ledger.typedata.model import (
+    SHAPE_DIMENSIONS,
     AIRCRAFT_KINDS,
     CONFIGURATION_ACTIONS,
     ENVELOPE_AXES,
@@ -89,15 +90,6 @@ _TOLERANCE_KEYS = ("last_minute_mass", "last_minute_persons", "reweigh_mass_perc
                    "reweigh_cg_percent_mac", "reweigh_cg_shift")
 _CONFIG_KEYS = ("name", "action", "description", "disables_stations", "item")
 _ITEM_KEYS = ("name", "mass", "x", "y", "z", "shape")
-_SHAPE_DIMS = {
-    "point": (),
-    "box": ("length", "width", "height"),
-    "cylinder": ("radius", "length", "axis"),
-    "hollow_cylinder": ("radius", "inner_radius", "length", "axis"),
-    "disk": ("radius", "axis"),
-    "rod": ("length", "axis"),
-    "sphere": ("radius",),
-}
 _MASS_SET_KEYS = ("name", "description", "source") + OCCUPANT_CLASSES
 
 
@@ -826,7 +818,7 @@ class _Reader:
                 raise TypeDataError(f"{where}.kind", _MISSING,
                                     f"required: one of {_listing(SHAPE_KINDS)}")
             raise _err(f"{where}.kind", kind, f"expected one of {_listing(SHAPE_KINDS)}")
-        dims = _SHAPE_DIMS[kind]
+        dims = SHAPE_DIMENSIONS[kind]
         for key, value in raw.items():
             if key != "kind" and key not in dims:
                 allowed = _listing(("kind",) + dims)

@@ -16,6 +16,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ledger.errors import EnvelopeError, NotFoundError, TypeDataError, UnitError
+from ledger.typedata.model import SHAPE_DIMENSIONS
 from ledger.typedata import (
     STANDARD_MASS_SETS,
     VehicleType,
@@ -521,7 +522,7 @@ def test_format_page_documents_every_key():
                + P._ENVELOPE_KEYS + P._REACTION_KEYS + P._AXLE_KEYS + P._AXLE_GROUP_KEYS
                + P._TOLERANCE_KEYS + P._CONFIG_KEYS + P._ITEM_KEYS + P._MASS_SET_KEYS)
     keys |= {k for ks in P._INERTIA_KEYS.values() for k in ks}
-    keys |= {k for ks in P._SHAPE_DIMS.values() for k in ks}
+    keys |= {k for ks in SHAPE_DIMENSIONS.values() for k in ks}
     missing = sorted(k for k in keys if f"`{k}`" not in FORMAT_MD)
     assert missing == []
 
