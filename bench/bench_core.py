@@ -10,8 +10,10 @@ Prints one line per benchmark::
   identical, including points placed exactly on edges and vertices. Ratio = our throughput ÷
   shapely's (best of several runs each).
 - ``loading_sweep_1M``: 1,000,000 loading cases of 12 items each: mass, CG, envelope verdict and
-  signed CG margin per case, against a plain Python loop running the same algorithm case by case
-  (timed on 20,000 cases and scaled per case). Results must agree on those cases.
+  signed CG margin per case (``ledger.core.sweep.sweep_cases``: chunked, one matrix product per
+  chunk for mass and moment, envelope prepared by ``prepare_sweep``), against a plain Python loop
+  running the same algorithm case by case (timed on 20,000 cases and scaled per case). Results
+  must agree with the loop on those cases, and with ``mass_properties`` + ``assess`` on all.
 
 The envelope and loadings are invented for the benchmark (not a real type; not for operation).
 """
@@ -26,6 +28,7 @@ import shapely
 
 from ledger.core.envelope import assess, covers, default_tolerance
 from ledger.core.massprops import mass_properties
+from ledger.core.sweep import sweep_cases
 
 # Invented arm–mass envelope in mm and kg (a type file may declare kg and mm), with a notch in
 # the aft limit. Integer vertices, so points exactly on the sloped edges are representable.
@@ -157,11 +160,20 @@ def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int 
     masses = rng.uniform(lo, hi, size=(n, len(ITEMS)))
 
     def vectorised():
-        mp = mass_properties(masses, arms)
-        verdict = assess(ENVELOPE, mp.cg.x, mp.mass)
-        return mp.mass, mp.cg.x, verdict.inside, verdict.margin
+        r = sweep_cases(masses, arms, ENVELOPE)
+        return r.mass, r.cg, r.inside, r.margin
 
     mass, cg, inside, margin = vectorised()
+    # The sweep must give the results of the unprepared path on every case: mass_properties,
+    # then assess (itself checked against shapely in envelope_covers_1M and the tests).
+    mp = mass_properties(masses, arms)
+    ref = assess(ENVELOPE, mp.cg.x, mp.mass)
+    assert np.allclose(mass, mp.mass, rtol=1e-15) and np.allclose(cg, mp.cg.x, rtol=1e-15)
+    assert np.array_equal(inside, ref.inside), "verdicts differ from assess"
+    fin = np.isfinite(ref.margin)
+    assert np.array_equal(fin, np.isfinite(margin))
+    assert np.array_equal(ref.margin[~fin], margin[~fin])
+    assert np.allclose(ref.margin[fin], margin[fin], rtol=0, atol=1e-9)
 
     case = _python_case_factory(ENVELOPE, default_tolerance(ENVELOPE))
     rows = masses[:n_python].tolist()
