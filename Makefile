@@ -20,7 +20,7 @@ demo: $(STAMP)
 	$(VENV)/bin/wbledger demo
 
 test: $(STAMP)
-	@bash tools/ensure-postgres
+	@bash tools/ensure-test-tools
 	$(PY) -m pytest
 
 bench: $(STAMP)
