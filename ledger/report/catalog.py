@@ -21,9 +21,9 @@ def type_document(vtype, *, revision: int, imported_at: str, content_sha256: str
 
 
 def _console():
-    from ledger.cli.common import console
+    from rich.console import Console
 
-    return console()
+    return Console(highlight=False, soft_wrap=False)
 
 
 def render_type_list(rows: list[dict]) -> None:
