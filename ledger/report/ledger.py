@@ -205,17 +205,18 @@ def _history_table(con, lines: list[dict], u: dict, has_mac: bool) -> None:
         table.add_column(name, justify=justify,
                          overflow="fold" if name == "Entry" else "ellipsis",
                          no_wrap=name != "Entry", ratio=1 if name == "Entry" else None)
+    notes = []
     for line in lines:
         a = line["after"]
         c = line["change"]
         flags = ("n" if line["negligible"] else "") + ("!" if line["warnings"] else "")
-        what = _what(line)
-        if line.get("reason"):
-            what += f": {line['reason']}"
+        # Who, why and the work order go under the table: in a column they would squeeze the
+        # figures out of 80 columns.
         who = [f"by {line['actor']}"] + ([f"ref {line['reference']}"]
                                         if line.get("reference") else [])
-        what += f" ({', '.join(who)})"
-        row = [str(line["seq"]), line["entry_date"], what,
+        notes.append(f"  #{line['seq']} " + (f"{line['reason']}; " if line.get("reason") else "")
+                     + ", ".join(who))
+        row = [str(line["seq"]), line["entry_date"], _what(line),
                fmt_mass(c["mass_kg"], u["mass"], signed=True, unit_label=False),
                _index(c["mx_kgm"], u, signed=True),
                fmt_mass(a["empty_mass_kg"], u["mass"], unit_label=False),
@@ -226,6 +227,8 @@ def _history_table(con, lines: list[dict], u: dict, has_mac: bool) -> None:
         row.append(flags)
         table.add_row(*row)
     con.print(table)
+    for note in notes:
+        con.print(note, overflow="fold", markup=False)
 
 
 def render_history(doc: dict) -> None:
