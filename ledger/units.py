@@ -58,6 +58,7 @@ __all__ = [
     "canonical_unit",
     "describe_units",
     "dimension_of",
+    "display_decimals",
     "format_quantity",
     "from_unit",
     "is_bare_number",
@@ -688,6 +689,47 @@ def format_quantity(value_si: float, unit: str, digits: int = 1) -> str:
     if float(text) == 0.0:
         text = text.lstrip("-")
     return f"{text} {u}"
+
+
+# Decimals a display unit shows. Masses: the unit's usual decimals, more for a small vehicle
+# (see display_decimals). Lengths (arms, CGs): to 0.1 mm in metric units and 0.01 in in
+# imperial ones (ft to 0.0001 ft, about 0.001 in), whatever the size of the vehicle.
+_MASS_DECIMALS = {"kg": 1, "lb": 1, "g": 0, "t": 3, "slug": 2}
+_LENGTH_DECIMALS = {"m": 4, "cm": 2, "mm": 1, "in": 2, "ft": 4}
+_MASS_SIG_FIGS = 4
+_MAX_DECIMALS = 6
+
+
+def display_decimals(unit: str, scale_si: float | None = None) -> int:
+    """How many decimals to show a mass or a length in ``unit`` with.
+
+    A length gets a fixed resolution: 0.1 mm in metric units, 0.01 in in imperial ones. A mass
+    gets the unit's usual decimals (one for kg and lb), and more when ``scale_si`` (a typical
+    mass of the vehicle, in kg: its empty mass) would otherwise show fewer than four
+    significant figures, so that a 3.1 kg drone reads "3.100 kg", not "3.1 kg"; every mass of
+    that vehicle then shows the same decimals (common practice: a column of one table keeps
+    one number of decimals). Other units: one decimal.
+
+    Examples
+    --------
+    >>> display_decimals("lb", 736.2), display_decimals("kg", 3.1), display_decimals("kg")
+    (1, 3, 1)
+    >>> display_decimals("g", 0.055), display_decimals("kg", 0.0)
+    (2, 1)
+    >>> display_decimals("mm"), display_decimals("m"), display_decimals("in")
+    (1, 4, 2)
+    """
+    u = canonical_unit(unit)
+    if u in _LENGTH_DECIMALS:
+        return _LENGTH_DECIMALS[u]
+    base = _MASS_DECIMALS.get(u, 1)
+    if u not in _MASS_DECIMALS or scale_si is None:
+        return base
+    v = abs(to_unit(float(scale_si), u))
+    if not math.isfinite(v) or v == 0.0:
+        return base
+    need = _MASS_SIG_FIGS - 1 - math.floor(math.log10(v))
+    return int(min(max(base, need), _MAX_DECIMALS))
 
 
 @dataclass(frozen=True)

@@ -2,14 +2,13 @@
 
 from __future__ import annotations
 
-from ledger.units import DisplayUnits, to_unit
+from ledger.units import DisplayUnits, display_decimals, to_unit
 
 __all__ = ["mass_text", "length_text", "volume_text", "phase_title", "PHASE_TITLES"]
 
 PHASE_TITLES = {"zero_fuel": "Zero-fuel", "ramp": "Ramp", "takeoff": "Take-off",
                 "landing": "Landing", "departure": "Departure", "arrival": "Arrival"}
 
-_LENGTH_DECIMALS = {"in": 2, "m": 3, "mm": 0, "cm": 1, "ft": 3}
 _VOLUME_DECIMALS = {"USgal": 1, "impgal": 1, "L": 1, "m3": 3, "ft3": 2, "in3": 0}
 
 
@@ -54,7 +53,7 @@ def length_text(m: float, du: DisplayUnits) -> str:
     '80.50 in'
     """
     v = to_unit(m, du.length)
-    return f"{_fixed(v, _LENGTH_DECIMALS.get(du.length, 2))} {du.length}"
+    return f"{_fixed(v, display_decimals(du.length))} {du.length}"
 
 
 def volume_text(m3: float, du: DisplayUnits) -> str:

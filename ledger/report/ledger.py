@@ -10,7 +10,7 @@ tolerance ``!``.
 from __future__ import annotations
 
 from ledger.report.caution import CAUTION_SHORT
-from ledger.units import to_unit
+from ledger.units import display_decimals, to_unit
 
 __all__ = [
     "render_fleet",
@@ -25,8 +25,6 @@ __all__ = [
     "fmt_length",
 ]
 
-_MASS_DIGITS = {"kg": 1, "lb": 1, "g": 0, "t": 3, "slug": 2}
-_LENGTH_DIGITS = {"m": 3, "cm": 1, "mm": 0, "in": 2, "ft": 3}
 KIND_WORDS = {"weighing": "weighing", "install": "install", "remove": "remove",
               "correction": "correction", "cg_height": "CG height"}
 
@@ -44,20 +42,23 @@ def _num(value: float, digits: int, signed: bool = False) -> str:
     return text
 
 
-def fmt_mass(kg: float | None, unit: str, *, signed: bool = False, unit_label: bool = True) -> str:
-    """A mass in ``unit`` with the unit's usual decimals ("1771.0 lb")."""
+def fmt_mass(kg: float | None, unit: str, *, signed: bool = False, unit_label: bool = True,
+             scale: float | None = None) -> str:
+    """A mass in ``unit`` with the unit's usual decimals ("1771.0 lb"), more for a small
+    vehicle: ``scale`` is the vehicle's empty mass, kg (see :func:`ledger.units.display_decimals`).
+    """
     if kg is None:
         return "-"
-    text = _num(to_unit(kg, unit), _MASS_DIGITS.get(unit, 1), signed)
+    text = _num(to_unit(kg, unit), display_decimals(unit, scale), signed)
     return f"{text} {unit}" if unit_label else text
 
 
 def fmt_length(m: float | None, unit: str, *, signed: bool = False,
                unit_label: bool = True) -> str:
-    """A length (arm, CG) in ``unit`` with the unit's usual decimals ("42.99 in")."""
+    """A length (arm, CG) in ``unit`` to 0.1 mm or 0.01 in ("42.99 in")."""
     if m is None:
         return "-"
-    text = _num(to_unit(m, unit), _LENGTH_DIGITS.get(unit, 2), signed)
+    text = _num(to_unit(m, unit), display_decimals(unit), signed)
     return f"{text} {unit}" if unit_label else text
 
 
@@ -108,7 +109,7 @@ def render_fleet(rows: list[dict]) -> None:
                           str(r["entries"]))
         else:
             table.add_row(r["registration"] + flag, r["type"],
-                          fmt_mass(e["empty_mass_kg"], u["mass"]),
+                          fmt_mass(e["empty_mass_kg"], u["mass"], scale=e["empty_mass_kg"]),
                           fmt_length(e["cg_x_m"], u["length"]), _pct(e["percent_mac"]),
                           r["last_weighed"], str(r["entries"]))
         warnings += [f"{r['registration']}: {w['message']}" for w in r["warnings"]]
@@ -135,7 +136,8 @@ def render_vehicle(d: dict) -> None:
         con.print(_state_line(e, u, d["mac"]))
         w = d["last_weighing"]
         s = d["since_weighing"]
-        since = (f"; since then {fmt_mass(s['delta_mass_kg'], u['mass'], signed=True)}, CG "
+        dm = fmt_mass(s["delta_mass_kg"], u["mass"], signed=True, scale=e["empty_mass_kg"])
+        since = (f"; since then {dm}, CG "
                  f"{fmt_length(s['delta_cg_x_m'], u['length'], signed=True)}"
                  + (f" ({s['delta_percent_mac']:+.2f} % MAC)"
                     if s["delta_percent_mac"] is not None else ""))
@@ -149,7 +151,8 @@ def render_vehicle(d: dict) -> None:
     if items:
         con.print("Installed by the ledger:")
         for it in items:
-            con.print(f"  {it['name']}: {fmt_mass(it['mass_kg'], u['mass'])} at "
+            scale = e["empty_mass_kg"] if e is not None else None
+            con.print(f"  {it['name']}: {fmt_mass(it['mass_kg'], u['mass'], scale=scale)} at "
                       f"{fmt_length(it['x_m'], u['length'])} (entry {it['seq']}, "
                       f"{it['entry_date']})", overflow="fold")
     if d["configurations"]:
@@ -164,8 +167,8 @@ def render_vehicle(d: dict) -> None:
 
 def _state_line(e: dict, u: dict, mac: dict | None) -> str:
     """Two lines: empty mass, CG, %MAC and moment; then the lateral and vertical CG."""
-    text = (f"Empty mass {fmt_mass(e['empty_mass_kg'], u['mass'])}, CG "
-            f"{fmt_length(e['cg_x_m'], u['length'])}")
+    mass = fmt_mass(e["empty_mass_kg"], u["mass"], scale=e["empty_mass_kg"])
+    text = f"Empty mass {mass}, CG {fmt_length(e['cg_x_m'], u['length'])}"
     if mac is not None and e.get("percent_mac") is not None:
         text += f" ({e['percent_mac']:.2f} % MAC)"
     text += f", moment {_index(e['mx_kgm'], u)} {_moment_label(u)}"
@@ -217,9 +220,11 @@ def _history_table(con, lines: list[dict], u: dict, has_mac: bool) -> None:
         notes.append(f"  #{line['seq']} " + (f"{line['reason']}; " if line.get("reason") else "")
                      + ", ".join(who))
         row = [str(line["seq"]), line["entry_date"], _what(line),
-               fmt_mass(c["mass_kg"], u["mass"], signed=True, unit_label=False),
+               fmt_mass(c["mass_kg"], u["mass"], signed=True, unit_label=False,
+                        scale=a["empty_mass_kg"]),
                _index(c["mx_kgm"], u, signed=True),
-               fmt_mass(a["empty_mass_kg"], u["mass"], unit_label=False),
+               fmt_mass(a["empty_mass_kg"], u["mass"], unit_label=False,
+                        scale=a["empty_mass_kg"]),
                _index(a["mx_kgm"], u),
                fmt_length(a["cg_x_m"], u["length"], unit_label=False)]
         if has_mac:
@@ -267,7 +272,9 @@ def render_entry(doc: dict) -> None:
               overflow="fold")
     c = line["change"]
     if line["kind"] != "weighing":
-        con.print(f"  Change: {fmt_mass(c['mass_kg'], u['mass'], signed=True)}, moment "
+        scale = line["after"]["empty_mass_kg"]
+        con.print(f"  Change: {fmt_mass(c['mass_kg'], u['mass'], signed=True, scale=scale)}, "
+                  f"moment "
                   f"{_index(c['mx_kgm'], u, signed=True)} {_moment_label(u)}"
                   + (f"; negligible ({line['negligible_note']})" if line["negligible"]
                      else ""), overflow="fold")
@@ -275,7 +282,8 @@ def render_entry(doc: dict) -> None:
         w = line.get("weighing") or {}
         aw = w.get("as_weighed") or {}
         if aw:
-            con.print(f"  As weighed: {fmt_mass(aw['mass_kg'], u['mass'])}, CG "
+            mass = fmt_mass(aw["mass_kg"], u["mass"], scale=aw["mass_kg"])
+            con.print(f"  As weighed: {mass}, CG "
                       f"{fmt_length(aw['mx_kgm'] / aw['mass_kg'], u['length'])}")
     con.print(_indent(_state_line(line["after"], u, doc["mac"])), overflow="fold")
     for w in line["warnings"]:

@@ -37,7 +37,7 @@ from rich.text import Text
 
 from ledger.report.caution import CAUTION, GROUND_CAUTION
 from ledger.report.textchart import PATH, envelope_chart
-from ledger.units import DisplayUnits, to_unit
+from ledger.units import DisplayUnits, display_decimals, to_unit
 
 __all__ = ["ChartData", "SheetView", "TableData", "render_sheet", "sheet_text"]
 
@@ -50,8 +50,6 @@ PHASE_MARKS = {"zero_fuel": "Z", "ramp": "R", "takeoff": "T", "landing": "L",
 EXIT_MARK = "!"
 AIRCRAFT_KINDS = ("airplane", "helicopter", "drone")
 
-_MASS_DECIMALS = {"kg": 1, "lb": 1, "g": 0, "t": 3, "slug": 2}
-_LENGTH_DECIMALS = {"in": 2, "m": 3, "mm": 0, "cm": 1, "ft": 3}
 _VOLUME_DECIMALS = {"USgal": 1, "impgal": 1, "L": 1, "m3": 3, "ft3": 2, "in3": 0}
 _DENSITY_MARKS = {"given": "g", "type": "f", "temperature": "t"}
 
@@ -126,8 +124,9 @@ class SheetView:
         self.mass_unit = self.du.mass
         self.length_unit = self.du.length
         self.volume_unit = self.du.volume
-        self._md = _MASS_DECIMALS.get(self.mass_unit, 1)
-        self._ld = _LENGTH_DECIMALS.get(self.length_unit, 2)
+        empty = _num((doc.get("empty_weight") or {}).get("mass_kg"))
+        self._md = display_decimals(self.mass_unit, empty)
+        self._ld = display_decimals(self.length_unit)
         self._vd = _VOLUME_DECIMALS.get(self.volume_unit, 1)
         biggest = max([abs(_num((p.get("moment_index"))) or 0.0)
                        for p in doc.get("phases") or []] + [0.0])

@@ -448,7 +448,8 @@ def test_axle_overload_is_fixed_by_moving_the_load_forward():
     assert_close(move["distance_m"], -0.97, unit="m", rtol=1e-9)
     new_rear = (4000 * 1.6 + 3000 * (5.5 - 0.97)) / 4.0
     assert new_rear <= 5000 and 1.0 <= 5.5 - 0.97 <= 6.0
-    assert move["description"] == "Move the load in 'box' 0.970 m forward (its CG to 4.530 m)"
+    # Lengths in m are shown to 0.1 mm, the same as the sheet's arm column.
+    assert move["description"] == "Move the load in 'box' 0.9700 m forward (its CG to 4.5300 m)"
 
 
 def test_axle_group_rules_are_advisory_only():

@@ -217,11 +217,12 @@ def test_violation_in_si_message_gets_display_figures():
 def test_helicopter_shows_lateral_arms_and_a_lateral_chart():
     text = sheet_text(samples.helicopter_lateral())
     load = section(text, "LOAD BY STATION")
-    assert row(load, "front_left")[-3:] == ["2.100", "-0.350", "168.0"]
+    # Arms in m to 0.1 mm (4 decimals): see ledger.units.display_decimals.
+    assert row(load, "front_left")[-3:] == ["2.1000", "-0.3500", "168.0"]
     assert "Lateral" in load
     lat = section(text, "ENVELOPE NORMAL, LATERAL")
     assert "lateral CG (m, + right)" in lat
-    assert "Z Zero-fuel: 1385.0 kg, lat. CG +0.009 m, inside" in lat
+    assert "Z Zero-fuel: 1385.0 kg, lat. CG +0.0088 m, inside" in lat
     margins = section(text, "ENVELOPE MARGINS")
     assert "normal lat." in margins and "normal long." in margins
     # no reduction factor with kg·m: the column is the moment itself
