@@ -23,6 +23,7 @@ __all__ = [
     "SchemaError",
     "ChainError",
     "CorrectionError",
+    "DatabaseOpenError",
 ]
 
 
@@ -146,3 +147,7 @@ class ChainError(LedgerError):
 
 class CorrectionError(InputError):
     """A proposed fix cannot work (ballast on the wrong side of a limit, no room under a limit)."""
+
+
+class DatabaseOpenError(InputError):
+    """The database named by ``--db`` or ``$WBLEDGER_DB`` cannot be opened (no server, no file)."""

@@ -19,12 +19,38 @@ from ledger.cli import common
 __all__ = ["app", "main"]
 
 
+def _usage_line(exc) -> None:
+    """A command-line usage mistake (missing option, not a number) as one line, exit 2."""
+    from typer._click.exceptions import NoArgsIsHelpError
+
+    if isinstance(exc, NoArgsIsHelpError):  # a bare group: its help is the answer
+        raise exc
+    message = " ".join(exc.format_message().split()).rstrip(".")
+    where = ""
+    if exc.ctx is not None:  # named as the user types it, whatever the runner called the root
+        path = ["wbledger", *exc.ctx.command_path.split()[1:]]
+        where = f" (see `{' '.join(path)} --help`)"
+    common.fail(f"{message}{where}", exc.exit_code)
+
+
 class _LedgerGroup(TyperGroup):
-    """Top-level group: turns LedgerError into one line on stderr and its exit code."""
+    """Top-level group: turns LedgerError and usage errors into one line on stderr."""
+
+    def make_context(self, info_name, args, parent=None, **extra):
+        from typer._click.exceptions import UsageError
+
+        try:
+            return super().make_context(info_name, args, parent=parent, **extra)
+        except UsageError as exc:
+            _usage_line(exc)
 
     def invoke(self, ctx):
+        from typer._click.exceptions import UsageError
+
         try:
             return super().invoke(ctx)
+        except UsageError as exc:
+            _usage_line(exc)
         except Exception as exc:  # noqa: BLE001 - re-raised unless it is ours
             from ledger.errors import LedgerError
 

@@ -55,12 +55,23 @@ def _typed_unit(text: str | None, dimension: str) -> str | None:
         return None
 
 
-def _q(text: str | None, dimension: str, default_unit: str | None, field: str):
+def _q(text: str | None, dimension: str, default_unit: str | None, field: str, *,
+       positive: bool = False):
+    """Parse an option; a load (mass) must be 0 or more, a ``positive`` one above 0.
+
+    The sign is checked here so that the message shows the option as typed, with its unit.
+    """
     if text is None:
         return None
+    from ledger.errors import InputError
     from ledger.units import parse_quantity
 
-    return parse_quantity(text, dimension, default_unit, field=field)
+    value = parse_quantity(text, dimension, default_unit, field=field)
+    if positive and not value > 0:
+        raise InputError(field, text, f"a {dimension} greater than 0")
+    if dimension == "mass" and value < 0:
+        raise InputError(field, text, "a mass of 0 or more")
+    return value
 
 
 def _vehicle_type(ctx: typer.Context, registration: str):
@@ -102,9 +113,11 @@ def corners(
     lu = vtype.units.length if vtype is not None else None
     loads = [_q(v, "mass", mu, name) for v, name in
              ((lf, "--lf"), (rf, "--rf"), (lr, "--lr"), (rr, "--rr"))]
-    geo = type_geometry(vtype, wheelbase_m=_q(wheelbase, "length", lu, "--wheelbase"),
-                        track_front_m=_q(track, "length", lu, "--track"),
-                        track_rear_m=_q(rear_track, "length", lu, "--rear-track"))
+    geo = type_geometry(vtype,
+                        wheelbase_m=_q(wheelbase, "length", lu, "--wheelbase", positive=True),
+                        track_front_m=_q(track, "length", lu, "--track", positive=True),
+                        track_rear_m=_q(rear_track, "length", lu, "--rear-track",
+                                         positive=True))
     doc = corner_weights_document(*loads, geo, vtype=vtype, registration=registration)
     if vtype is None:  # show what the user typed
         du = DisplayUnits(_typed_unit(lf, "mass") or "kg",
@@ -189,7 +202,7 @@ def cg_height(
     tilted_text = front_tilted or rear_tilted
     tilted = [_q(t, "mass", mu, f"--{grounded}-tilted") for t in tilted_text]
     if wheelbase is not None:
-        wb = _q(wheelbase, "length", lu, "--wheelbase")
+        wb = _q(wheelbase, "length", lu, "--wheelbase", positive=True)
     elif len(vtype.axles) == 2:
         wb = vtype.axles[1].x_m - vtype.axles[0].x_m
     else:
@@ -205,7 +218,7 @@ def cg_height(
         angles = [_q(a, "angle", "deg", "--angle") for a in (angle or [])]
         source = "given"
     tt = [_q(t, "mass", mu, "--total-tilted") for t in total_tilted] if total_tilted else None
-    r = _q(wheel_radius, "length", lu, "--wheel-radius")
+    r = _q(wheel_radius, "length", lu, "--wheel-radius", positive=True)
     dh = _q(datum_height, "length", lu, "--datum-height")
     if dh is None and not dry_run:
         raise InputError("--datum-height", MISSING,

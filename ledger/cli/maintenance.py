@@ -198,15 +198,18 @@ def export(ctx: typer.Context, registration: str = REG_ARG,
            output: Path = typer.Option(None, "-o", "--output", metavar="FILE",
                                        help="Write to FILE (default: standard output).")) -> None:
     """Export a vehicle's whole ledger, exactly (values, dates and hashes)."""
+    from ledger.files import check_output_path, write_output_text
     from ledger.store.db import session_scope
     from ledger.store.transfer import export_history
 
+    if output is not None:
+        check_output_path(output, "--output")
     with session_scope(common.state(ctx).engine()) as session:
         text = export_history(session, registration, fmt)
     if output is None:
         typer.echo(text, nl=False)
     else:
-        output.write_text(text, encoding="utf-8")
+        write_output_text(output, text, "--output")
         typer.echo(f"Wrote the ledger of {registration} to {output} ({fmt}).", err=True)
 
 

@@ -93,7 +93,9 @@ def _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration, categ
 
 
 def _is_file(target: str) -> bool:
-    return target.lower().endswith(".toml") or Path(target).is_file()
+    # A registration never holds a path separator, so such an argument is a (mistyped) path.
+    return (target.lower().endswith(".toml") or Path(target).exists()
+            or "/" in target or "\\" in target)
 
 
 def _raw_plan(target: str, options) -> tuple[dict, str]:
@@ -111,6 +113,15 @@ def _raw_plan(target: str, options) -> tuple[dict, str]:
 def _preparer(by: str | None, raw: dict) -> str:
     plan_by = raw.get("prepared_by") if isinstance(raw.get("prepared_by"), str) else None
     return by or plan_by or common.actor(None)
+
+
+def _check_outputs(pdf: Path | None, svg: Path | None) -> None:
+    """Refuse unwritable --pdf / --svg paths before anything is computed or saved."""
+    from ledger.files import check_output_path
+
+    for path, option in ((pdf, "--pdf"), (svg, "--svg")):
+        if path is not None:
+            check_output_path(path, option)
 
 
 def _outputs(doc: dict, as_json: bool, width: int, pdf: Path | None, svg: Path | None) -> None:
@@ -156,6 +167,7 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
     from ledger.store.db import session_scope
     from ledger.store.sheets import prepare_sheet, save_prepared
 
+    _check_outputs(pdf, svg)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
     raw, source = _raw_plan(target, options)
@@ -188,6 +200,7 @@ def amend(ctx: typer.Context,
     from ledger.store.sheets import amend_sheet
     from ledger.typedata.plan import read_plan_file
 
+    _check_outputs(pdf, svg)
     options = _options(person, vacate, cargo, fuel, taxi, trip, None, None, None, None, None)
     raw = read_plan_file(plan_file) if plan_file is not None else None
     with session_scope(common.state(ctx).engine()) as session:
@@ -210,6 +223,7 @@ def show(ctx: typer.Context,
     from ledger.store.db import session_scope
     from ledger.store.sheets import get_sheet, verify_sheet
 
+    _check_outputs(pdf, svg)
     with session_scope(common.state(ctx).engine()) as session:
         saved = get_sheet(session, sheet_id)
         ok = verify_sheet(session, sheet_id)

@@ -437,16 +437,27 @@ def _render(doc: dict, path, fmt: str, paper: str) -> Path:
         from ledger.errors import InputError
 
         raise InputError("paper", paper, "one of " + ", ".join(PAPER_SIZES))
-    import matplotlib
-
-    from matplotlib.backends.backend_pdf import PdfPages
-    from matplotlib.figure import Figure
-
     view = SheetView(doc)
     page_w, page_h = PAPER_SIZES[paper]
     path = Path(path)
     rc = {"svg.fonttype": "none", "svg.hashsalt": "wbledger-sheet", "pdf.fonttype": 42,
           "text.parse_math": False, "font.family": _SANS, "axes.unicode_minus": True}
+    try:
+        _write(doc, view, path, fmt, page_w, page_h, rc)
+    except OSError as exc:
+        from ledger.files import output_error
+
+        raise output_error(path, f"--{fmt}", exc) from None
+    return path
+
+
+def _write(doc: dict, view: "SheetView", path: Path, fmt: str, page_w: float, page_h: float,
+           rc: dict) -> None:
+    import matplotlib
+
+    from matplotlib.backends.backend_pdf import PdfPages
+    from matplotlib.figure import Figure
+
     with matplotlib.rc_context(rc):
         if fmt == "pdf":
             lay = _layout(view, page_w, page_h)
@@ -467,7 +478,6 @@ def _render(doc: dict, path, fmt: str, paper: str) -> Path:
             _draw(fig, lay.ops, page_w, height)
             _footer(fig, view, page_w, height, "")
             fig.savefig(path, format="svg", metadata={"Date": None, "Creator": "wbledger"})
-    return path
 
 
 def _footer(fig, view: SheetView, page_w: float, page_h: float, page_text: str) -> None:

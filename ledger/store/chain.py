@@ -284,9 +284,13 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
     for row in rows:
         e = dict(zip(names, row[:n_cols]))
         stored = row[n_cols]
-        seq = int(e["seq"])
         expected_seq = count + 1
         count += 1
+        try:
+            seq = int(e["seq"])
+        except (ValueError, TypeError):
+            return ChainReport(registration, count, None, None, False, expected_seq,
+                               f"entry {expected_seq}: its seq {e['seq']!r} is not a number")
 
         def bad(problem: str, at: int = seq) -> ChainReport:
             return ChainReport(registration, count, None, None, False, at, problem)
@@ -301,13 +305,18 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
             what = "the genesis hash" if prev is None else f"the hash of entry {seq - 1}"
             return bad(f"entry {seq}: prev_hash does not match {what}")
         try:
+            if isinstance(e["recorded_at"], str):  # SQLite text, read raw by _select
+                e["recorded_at"] = dt.datetime.fromisoformat(e["recorded_at"])
             actual = content_hash(e, registration)
         except (ValueError, TypeError, AttributeError) as exc:
             return bad(f"entry {seq}: its content cannot be read ({exc})")
         if actual != stored:
             return bad(f"entry {seq}: its content does not match its hash "
                        "(a field was changed after it was written)")
-        why = _state_follows(prev, e)
+        try:
+            why = _state_follows(prev, e)
+        except (ValueError, TypeError) as exc:
+            why = f"a stored value cannot be read ({exc})"
         if why:
             return bad(f"entry {seq}: running totals do not follow: {why}")
         if not seen_expected and stored == expect_head:
@@ -326,7 +335,14 @@ def _select(vehicle_ids=None):
 
     from ledger.store.models import LedgerEntryRow as E
 
-    cols = [getattr(E, name) for name in HASHED_COLUMNS] + [E.entry_hash]
+    from sqlalchemy import String, type_coerce
+
+    # Dates are read as the stored text where the driver gives text (SQLite), so that a value
+    # changed by hand into something that is not a date is reported by check_entries instead
+    # of failing inside the result processor; PostgreSQL still returns date objects.
+    raw = {"entry_date", "recorded_at"}
+    cols = [type_coerce(getattr(E, name), String).label(name) if name in raw
+            else getattr(E, name) for name in HASHED_COLUMNS] + [E.entry_hash]
     query = select(E.vehicle_id, *cols).order_by(E.vehicle_id, E.seq)
     if vehicle_ids is not None:
         query = query.where(E.vehicle_id.in_(vehicle_ids))
@@ -337,6 +353,14 @@ def verify_vehicle(session, registration: str, *, expect_head: str | None = None
     """Verify the chain of one vehicle (streamed; raises NotFoundError for an unknown one)."""
     from ledger.store.catalog import get_vehicle
 
+    if expect_head is not None:
+        import re
+
+        from ledger.errors import InputError
+
+        if not re.fullmatch(r"[0-9a-f]{64}", expect_head):
+            raise InputError("--expect", expect_head, "a head hash: 64 hexadecimal digits "
+                             "(0-9, a-f) as `wbledger verify` prints it")
     vehicle = get_vehicle(session, registration)
     result = session.execute(_select([vehicle.id]).execution_options(yield_per=5000))
     return check_entries(registration, (r[1:] for r in result), expect_head=expect_head)

@@ -25,7 +25,7 @@ from sqlalchemy import Engine, create_engine, event, inspect
 from sqlalchemy.engine import Connection, make_url
 from sqlalchemy.orm import Session, sessionmaker
 
-from ledger.errors import InputError, SchemaError
+from ledger.errors import DatabaseOpenError, InputError, SchemaError
 
 __all__ = [
     "ENV_VAR",
@@ -56,8 +56,39 @@ def default_url() -> str:
 
 
 def resolve_url(url: str | None = None) -> str:
-    """``url`` if given, else ``$WBLEDGER_DB``, else :func:`default_url`."""
-    return url or os.environ.get(ENV_VAR) or default_url()
+    """``url`` if given, else ``$WBLEDGER_DB``, else :func:`default_url`.
+
+    An empty ``url`` (``--db ""``) is kept, so that :func:`make_engine` refuses it rather than
+    silently opening the default file; an empty ``$WBLEDGER_DB`` counts as not set.
+    """
+    if url is not None:
+        return url
+    return os.environ.get(ENV_VAR) or default_url()
+
+
+def _first_line(exc: BaseException) -> str:
+    lines = [ln.strip() for ln in str(exc).splitlines() if ln.strip()]
+    return lines[0] if lines else exc.__class__.__name__
+
+
+def _refuse_unopenable(url: str):
+    """A ``handle_error`` listener: a failed *connect* becomes one line naming the URL."""
+    parsed = make_url(url)
+    shown = parsed.render_as_string(hide_password=True)
+    hint = ("Check the path: a SQLite database file, or a new file name in an existing folder"
+            if parsed.get_backend_name() == "sqlite"
+            else "Check the URL, and that the server is running and accepts connections")
+
+    def listener(context) -> None:
+        # Only errors while connecting (no connection yet); errors of statements and of the
+        # pool's pre-ping keep their own handling.
+        if context.connection is not None or context.is_pre_ping:
+            return
+        reason = _first_line(context.original_exception)
+        raise DatabaseOpenError("--db", shown, f"a database that can be opened ({reason})",
+                                hint=hint) from None
+
+    return listener
 
 
 def _sqlite_pragmas(dbapi_connection, _record) -> None:
@@ -80,6 +111,9 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
 
     For a SQLite file the parent directory is created.
     """
+    from sqlalchemy.exc import NoSuchModuleError
+
+    chosen = url if url is not None else (os.environ.get(ENV_VAR) or None)
     url = resolve_url(url)
     try:
         parsed = make_url(url)
@@ -89,18 +123,36 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
     if parsed.get_backend_name() == "sqlite":
         database = parsed.database
         if database and database != ":memory:" and not database.startswith("file:"):
-            Path(database).expanduser().parent.mkdir(parents=True, exist_ok=True)
+            folder = Path(database).expanduser().parent
+            if chosen is None:  # the default file: its folder is ours to create
+                folder.mkdir(parents=True, exist_ok=True)
+            elif not folder.is_dir():
+                # A mistyped folder must not quietly grow a new, empty ledger somewhere else.
+                raise DatabaseOpenError("--db", url, f"a SQLite file in an existing folder; "
+                                        f"{str(folder)!r} is not one", hint="Create the folder "
+                                        "first, or correct the path")
         engine = create_engine(
             parsed, echo=echo, connect_args={"timeout": BUSY_TIMEOUT_MS / 1000}
         )
         event.listen(engine, "connect", _sqlite_pragmas)
         event.listen(engine, "begin", _sqlite_begin)
+        event.listen(engine, "handle_error", _refuse_unopenable(url))
         return engine
+    shown = parsed.render_as_string(hide_password=True)
     try:
-        return create_engine(parsed, echo=echo, pool_pre_ping=True)
+        engine = create_engine(parsed, echo=echo, pool_pre_ping=True)
+    except NoSuchModuleError:
+        raise InputError("--db", shown, f"a database wbledger supports; no dialect "
+                         f"{parsed.drivername!r}: use sqlite:///PATH or "
+                         "postgresql+psycopg://USER@HOST/DBNAME") from None
     except ModuleNotFoundError as exc:
-        raise InputError("--db", url, f"needs the database driver {exc.name!r}",
-                         hint="Install it, e.g. pip install 'wbledger[postgres]'") from None
+        hint = ("Install it, e.g. pip install 'wbledger[postgres]'"
+                if parsed.get_backend_name() == "postgresql"
+                else "wbledger supports SQLite and PostgreSQL")
+        raise InputError("--db", shown, f"needs the database driver {exc.name!r}",
+                         hint=hint) from None
+    event.listen(engine, "handle_error", _refuse_unopenable(url))
+    return engine
 
 
 _FACTORIES: "weakref.WeakKeyDictionary[Engine, sessionmaker]" = weakref.WeakKeyDictionary()
@@ -165,7 +217,15 @@ def _describe(url: str) -> str:
 
 
 def check_schema(engine: Engine) -> None:
-    """Refuse a database that is not initialised or not at this version's schema."""
+    """Refuse a database that is not initialised or not at this version's schema.
+
+    A SQLite file that does not exist is refused without being created.
+    """
+    database = engine.url.database
+    if (engine.url.get_backend_name() == "sqlite" and database and database != ":memory:"
+            and not database.startswith("file:") and not Path(database).expanduser().exists()):
+        raise SchemaError(f"the database {_describe(str(engine.url))} has no wbledger schema; "
+                          "run `wbledger init` first")
     with engine.connect() as conn:
         current = current_revision(conn)
         conn.rollback()

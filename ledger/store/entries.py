@@ -145,7 +145,14 @@ class Entry:
 
     @property
     def detail(self) -> dict:
-        return json.loads(self.detail_json)
+        try:
+            return json.loads(self.detail_json)
+        except (TypeError, ValueError):
+            from ledger.errors import ChainError
+
+            raise ChainError(f"entry {self.seq} of {self.registration}: its stored detail is "
+                             "not valid JSON; it was changed outside wbledger. See "
+                             f"`wbledger verify {self.registration}`") from None
 
     @property
     def cg_x_m(self) -> float:
@@ -935,6 +942,17 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
             raise InputError("--tare", raw_name, f"not a weighing point of type {info.name}; "
                              f"its points are {listing}")
         tare[name] = _mass(value, units, f"--tare {name}")
+        if tare[name] > given[name]:
+            from ledger.units import format_quantity, to_unit
+
+            # Caught here, in the user's units, before the pure core sees a negative net.
+            mu = units.mass
+            net = float(to_unit(given[name] - tare[name], mu, "mass"))
+            raise InputError(f"net reaction at {name!r}", round(net, 6),
+                             f"a net reading of 0 {mu} or more (reading "
+                             f"{format_quantity(given[name], mu, 2)} − tare "
+                             f"{format_quantity(tare[name], mu, 2)})",
+                             hint="Check the tare and the scale zero")
     names = list(points)
     corrections = []
     fuel_detail = []

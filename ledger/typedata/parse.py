@@ -929,6 +929,9 @@ def load_type_file(path: str | os.PathLike) -> VehicleType:
         raise NotFoundError("type file", source, "check the path") from None
     except IsADirectoryError:
         raise TypeDataError("file", source, "expected a type file, got a folder") from None
+    except OSError as exc:  # permission denied, an unreadable device
+        raise TypeDataError("file", source, f"a type file that can be read ({exc.strerror})") \
+            from None
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:

@@ -269,9 +269,12 @@ def read_plan_text(text: str, source: str = "plan") -> dict:
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
+        # The hint helps with a repeated key (two persons written as one table), not otherwise.
+        repeated = str(exc).startswith(("Cannot overwrite", "Cannot declare"))
         raise PlanError("plan file", source, f"not valid TOML: {exc}",
                         hint="A key may appear once in a table; for several people or loads "
-                             "write several [[person]] or [[cargo]] tables") from None
+                             "write several [[person]] or [[cargo]] tables" if repeated
+                        else None) from None
     version = data.get("plan_format", _MISSING)
     if version is _MISSING:
         raise PlanError("plan_format", _MISSING,
@@ -297,8 +300,14 @@ def read_plan_file(path: str | Path) -> dict:
         text = p.read_text(encoding="utf-8")
     except FileNotFoundError:
         raise PlanError("plan file", str(p), "no such file") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise PlanError("plan file", str(p), f"cannot be read as UTF-8 text: {exc}") from None
+    except IsADirectoryError:
+        raise PlanError("plan file", str(p), "a plan file (TOML), not a folder") from None
+    except UnicodeDecodeError as exc:
+        raise PlanError("plan file", str(p), f"not UTF-8 text (byte {exc.start}); save the "
+                        "file as UTF-8") from None
+    except OSError as exc:
+        raise PlanError("plan file", str(p), f"a file that can be read ({exc.strerror})") \
+            from None
     return read_plan_text(text, str(p))
 
 

@@ -1,0 +1,355 @@
+"""Bad input across every command group: one exact ``Error: …`` line, its exit code, nothing
+written, on SQLite and PostgreSQL.
+
+Each case runs one command line against a copy of a small ledger (two demo types, two vehicles
+weighed, one equipment change, one saved sheet) and checks three things: stderr is exactly the
+expected line (no traceback, no usage panel), the exit code, and a dump of every table (the
+alembic version, types, vehicles, ledger entries with their hashes, configurations, sheets) is
+the same before and after. The readings are the invented ones of ``demo_fleet/README.md``;
+what is checked here is behaviour, not figures (common practice for CLI error tests).
+
+The ledger is built once per database kind and copied for each case (a file copy for SQLite,
+``CREATE DATABASE … TEMPLATE`` for PostgreSQL), so that the ``cli`` fixture of
+``tests/conftest.py`` gets a fresh, populated database quickly: this module overrides
+``db_url``.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import shutil
+import uuid
+
+import pytest
+from sqlalchemy import inspect, text
+
+from tests.conftest import DEMO_FLEET
+
+P4, TR75 = DEMO_FLEET / "kv-p4.toml", DEMO_FLEET / "kv-tr75.toml"
+PLAN = DEMO_FLEET / "plans" / "kva-101-local.toml"
+WEIGHED, CHANGED = "2025-01-10", "2025-01-11"
+P4_READINGS = ["--reading", "nose=480 lb", "--reading", "left main=572 lb",
+               "--reading", "right main=576.5 lb"]
+T75_READINGS = ["--reading", "front left=1198 kg", "--reading", "front right=1069 kg",
+                "--reading", "rear left=726 kg", "--reading", "rear right=648 kg"]
+CORNERS = ["--lf", "1198 kg", "--rf", "1069 kg", "--lr", "726 kg"]
+LIFT = ["--front-level", "2211 kg", "--rear-level", "1308 kg", "--front-tilted", "2289.5 kg",
+        "--wheel-radius", "0.40 m"]
+R = ["--reason", "qa"]
+INSTALL = ["install", "KVA-101", "radio", "--arm", "100 in", *R]
+VEHICLES = "Known vehicles: KVA-101, KVA-T75"
+UNREACHABLE = "postgresql+psycopg://x@127.0.0.1:1/db"  # port 1: nothing listens there
+
+
+def _seed(url: str) -> None:
+    from typer.testing import CliRunner
+
+    from ledger.cli import app
+
+    runner = CliRunner()
+    steps = [["init"], ["type", "import", str(P4), str(TR75)],
+             ["vehicle", "add", "KVA-101", "--type", "KV-P4"],
+             ["vehicle", "add", "KVA-T75", "--type", "KV-TR75"],
+             ["weigh", "KVA-101", *P4_READINGS, "--date", WEIGHED, *R],
+             ["weigh", "KVA-T75", *T75_READINGS, "--fuel", "diesel=150 L", "--date", WEIGHED,
+              *R],
+             ["install", "KVA-101", "ELT", "--mass", "3.5 lb", "--arm", "130 in",
+              "--date", CHANGED, *R],
+             ["sheet", "prepare", str(PLAN), "--save"]]
+    for args in steps:
+        res = runner.invoke(app, ["--db", url, *args], catch_exceptions=False)
+        assert res.exit_code in (0, 1) if args[0] == "sheet" else res.exit_code == 0, \
+            (args, res.stderr)
+
+
+@pytest.fixture(scope="module")
+def _templates(tmp_path_factory):
+    """One seeded ledger per database kind, made on first use; copied for each case."""
+    made: dict = {}
+    yield made
+    if "postgres" in made:
+        server, name = made["postgres"]
+        server.drop_database(name)
+
+
+def _pg_copy(server, template: str) -> str:
+    import psycopg
+
+    name = "t_" + uuid.uuid4().hex[:12]
+    with psycopg.connect(server.dsn("postgres"), autocommit=True) as conn:
+        # A template must have no other sessions; end any an engine's pool still holds.
+        conn.execute("SELECT pg_terminate_backend(pid) FROM pg_stat_activity "
+                     "WHERE datname = %s AND pid <> pg_backend_pid()", (template,))
+        conn.execute(f'CREATE DATABASE "{name}" TEMPLATE "{template}"')
+    return name
+
+
+@pytest.fixture(params=["sqlite", pytest.param("postgres", marks=pytest.mark.postgres)])
+def db_url(request, tmp_path, tmp_path_factory, _templates):
+    """Overrides the conftest ``db_url``: a fresh copy of the seeded ledger."""
+    if request.param == "sqlite":
+        if "sqlite" not in _templates:
+            path = tmp_path_factory.mktemp("bad-input-template") / "ledger.sqlite3"
+            _seed(f"sqlite:///{path}")
+            import sqlite3
+
+            con = sqlite3.connect(path)  # fold the WAL into the file, so one file is the copy
+            con.execute("PRAGMA wal_checkpoint(TRUNCATE)")
+            con.close()
+            _templates["sqlite"] = path
+        target = tmp_path / "ledger.sqlite3"
+        shutil.copyfile(_templates["sqlite"], target)
+        yield f"sqlite:///{target}"
+        return
+    server = request.getfixturevalue("pg_server")
+    if "postgres" not in _templates:
+        name = server.create_database()
+        _seed(server.url(name))
+        _templates["postgres"] = (server, name)
+    name = _pg_copy(server, _templates["postgres"][1])
+    try:
+        yield server.url(name)
+    finally:
+        server.drop_database(name)
+
+
+def dump(url: str) -> dict:
+    """Every row of every table, as text, in a stable order."""
+    from ledger.store.db import make_engine
+
+    eng = make_engine(url)
+    try:
+        out = {}
+        with eng.connect() as conn:
+            for table in sorted(inspect(conn).get_table_names()):
+                rows = conn.execute(text(f'SELECT * FROM "{table}"')).all()
+                out[table] = sorted(tuple(map(repr, row)) for row in rows)
+    finally:
+        eng.dispose()
+    return out
+
+
+@pytest.fixture
+def files(tmp_path):
+    """Broken files of every kind, in a folder of this case."""
+    (tmp_path / "folder").mkdir()
+    (tmp_path / "garbage.toml").write_bytes(b"\xff\xfe\x00\x01 not text")
+    (tmp_path / "empty.toml").write_text("")
+    (tmp_path / "syntax.toml").write_text('plan_format = 1\nvehicle = "KVA-101"\n[[person]\n')
+    (tmp_path / "bad.csv").write_text(
+        "kind,entry_date,actor,reason,item,item_mass_kg,item_x_m\n"
+        "install,2025-02-01,qa,fit,lamp,1.5,2.0\n"
+        "install,2025-02-02,qa,fit,horn,nan,2.0\n")
+    return tmp_path
+
+
+# (command line, expected stderr line, exit code). {tmp} is the case's folder, {plan} the demo
+# plan of KVA-101, {today} today's date.
+CASES = [
+    # --- type and vehicle ------------------------------------------------------------------
+    (["type", "import", "{tmp}/missing.toml"],
+     "Error: no type file '{tmp}/missing.toml'. check the path", 2),
+    (["type", "import", "{tmp}/folder"],
+     "Error: file = '{tmp}/folder': expected a type file, got a folder", 2),
+    (["type", "import", "{tmp}/garbage.toml"],
+     "Error: file = '{tmp}/garbage.toml': not UTF-8 text (byte 0); save the file as UTF-8", 2),
+    (["type", "import", "{tmp}/empty.toml"],
+     "Error: {tmp}/empty.toml: format_version = (missing): required: format_version = 1 at the "
+     "top of the file", 2),
+    (["type", "show", "NOPE"],
+     "Error: no vehicle type 'NOPE'. Known types: KV-P4, KV-TR75", 2),
+    (["vehicle", "show", "NOPE"], f"Error: no vehicle 'NOPE'. {VEHICLES}", 2),
+    (["vehicle", "add", "bad reg!", "--type", "KV-P4"],
+     "Error: registration = 'bad reg!': 1 to 40 letters, digits or '-', starting with a letter "
+     "or digit", 2),
+    (["vehicle", "add", "KVA-102"],
+     "Error: Missing option '--type' (see `wbledger vehicle add --help`)", 2),
+    # --- maintenance: malformed quantities and dates -----------------------------------------
+    ([*INSTALL, "--mass", "12 furlong"],
+     "Error: --mass = '12 furlong': unknown unit 'furlong'; mass units: kg, g, t, lb, slug", 2),
+    ([*INSTALL, "--mass", "nan kg"],
+     "Error: --mass = 'nan kg': not a finite number; a mass must be a finite number", 2),
+    ([*INSTALL, "--mass", "inf"],
+     "Error: --mass = 'inf': not a finite number; a mass must be a finite number", 2),
+    ([*INSTALL, "--mass", "1e999 lb"],
+     "Error: --mass = '1e999 lb': not a finite number; a mass must be a finite number", 2),
+    ([*INSTALL, "--mass", "-5 kg"], "Error: --mass = '-5 kg': a mass of 0 or more", 2),
+    ([*INSTALL, "--mass", ""],
+     "Error: --mass = '': no number; write a mass as a number and a unit, e.g. '82 kg'; mass "
+     "units: kg, g, t, lb, slug", 2),
+    ([*INSTALL, "--mass", "3 lb", "--date", "2999-01-01"],
+     "Error: --date = '2999-01-01': a date not after today ({today})", 2),
+    ([*INSTALL, "--mass", "3 lb", "--date", "2025-13-45"],
+     "Error: --date = '2025-13-45': a date written YYYY-MM-DD, e.g. 2026-03-01", 2),
+    (["install", "KVA-101", "ELT", "--mass", "3 lb", "--arm", "100 in", *R],
+     "Error: item 'ELT' is installed on KVA-101 already (entry 2); remove it first or give this "
+     "one another name", 2),
+    (["install", "NOPE", "radio", "--mass", "3 lb", "--arm", "100 in", *R],
+     f"Error: no vehicle 'NOPE'. {VEHICLES}", 2),
+    (["remove", "KVA-101", "ghost", *R],
+     "Error: item 'ghost' was never installed on KVA-101; installed items: 'ELT'", 2),
+    (["weigh", "KVA-101", *P4_READINGS[:4], *R],
+     "Error: --reading = 'right main': missing; type KV-P4 is weighed at nose, left main, right "
+     "main: give one --reading POINT=MASS for each", 2),
+    (["weigh", "KVA-101", *P4_READINGS, "--tare", "nose=500 lb", *R],
+     "Error: net reaction at 'nose' = -20: a net reading of 0 lb or more (reading 480.00 lb − "
+     "tare 500.00 lb). Check the tare and the scale zero", 2),
+    (["weigh", "KVA-101", *P4_READINGS, "--fuel", "left wing=100 USgal", *R],
+     "Error: --fuel left wing = '100 USgal': at most the tank's capacity (26.5 USgal)", 2),
+    (["correct", "KVA-101", "abc", *R],
+     "Error: Invalid value for 'SEQ': Input should be a valid integer, unable to parse string as "
+     "an integer (see `wbledger correct --help`)", 2),
+    (["correct", "KVA-101", "99", *R],
+     "Error: no entry of KVA-101 99. KVA-101 has entries 1 to 2", 2),
+    (["history", "KVA-101", "--as-of", "01/02/2025"],
+     "Error: --as-of = '01/02/2025': a date written YYYY-MM-DD, e.g. 2026-03-01", 2),
+    (["verify", "KVA-101", "--expect", "abc"],
+     "Error: --expect = 'abc': a head hash: 64 hexadecimal digits (0-9, a-f) as `wbledger "
+     "verify` prints it", 2),
+    (["export", "KVA-101", "-o", "{tmp}/no-folder/ledger.csv"],
+     "Error: --output = '{tmp}/no-folder/ledger.csv': a file in an existing folder; "
+     "'{tmp}/no-folder' does not exist", 2),
+    (["export", "KVA-101", "-o", "{tmp}/folder"],
+     "Error: --output = '{tmp}/folder': a file name, not a folder", 2),
+    (["import-history", "KVA-101", "{tmp}/bad.csv"],
+     "Error: bad.csv line 3: item_mass_kg = 'nan': the item's mass in kg, 0 or more", 2),
+    # --- configurations ---------------------------------------------------------------------
+    (["config", "define", "x", "--type", "NOPE", "--install", "a=1 kg@1 m"],
+     "Error: no vehicle type 'NOPE'. Known types: KV-P4, KV-TR75", 2),
+    (["config", "define", "x", "--type", "KV-P4", "--install", "a=-1 kg@1 m"],
+     "Error: --install a mass = '-1 kg': a mass of 0 or more", 2),
+    (["config", "show", "nope", "--vehicle", "KVA-101"],
+     "Error: no configuration of KVA-101 'nope'. Known: rear-seats-out", 2),
+    # --- loading sheets and checks ----------------------------------------------------------
+    (["check", "{tmp}/missing.toml"],
+     "Error: plan file = '{tmp}/missing.toml': no such file", 2),
+    (["check", "{tmp}/folder"],
+     "Error: plan file = '{tmp}/folder': a plan file (TOML), not a folder", 2),
+    (["check", "{tmp}/garbage.toml"],
+     "Error: plan file = '{tmp}/garbage.toml': not UTF-8 text (byte 0); save the file as UTF-8",
+     2),
+    (["check", "{tmp}/syntax.toml"],
+     "Error: plan file = '{tmp}/syntax.toml': not valid TOML: Expected ']]' at the end of an "
+     "array declaration (at line 3, column 9)", 2),
+    (["check", "NOPE", "--person", "pilot=80 kg"], f"Error: no vehicle 'NOPE'. {VEHICLES}", 2),
+    (["check", "KVA-101", "--person", "pilot=180 lb", "--person", "pilot=170 lb"],
+     "Error: --person = 'pilot=170 lb': a free seat: 'pilot' takes 1 person and another person "
+     "is already there. Two people cannot share one seat; put one in another seat", 2),
+    (["check", "KVA-101", "--person", "pilot=nan kg"],
+     "Error: --person = 'pilot=nan kg': not a finite number; a mass must be a finite number", 2),
+    (["check", "KVA-101", "--fuel", "left wing=100 USgal"],
+     "Error: --fuel = 'left wing=100 USgal': at most the usable capacity of tank 'left wing', "
+     "25 USgal (capacity 26.5 USgal less 1.5 USgal unusable, which the empty weight includes). "
+     "Reduce the fuel by 75 USgal", 2),
+    (["check", "KVA-101", "--fuel", "left wing=10 USgal", "--trip", "30 USgal"],
+     "Error: --trip = '30 USgal': at most the usable fuel on board in the fuel tanks, 10 USgal. "
+     "Add fuel or reduce the trip fuel", 2),
+    (["check", "KVA-101", "--cargo", "attic=10 kg"],
+     "Error: --cargo = 'attic=10 kg': unknown cargo, equipment or ballast station; type KV-P4 "
+     "has: baggage", 2),
+    (["check", "KVA-101", "--configuration", "nope"],
+     "Error: no configuration of KVA-101 'nope'. Known: rear-seats-out", 2),
+    (["sheet", "prepare", "{plan}", "--save", "--pdf", "{tmp}/no-folder/sheet.pdf"],
+     "Error: --pdf = '{tmp}/no-folder/sheet.pdf': a file in an existing folder; "
+     "'{tmp}/no-folder' does not exist", 2),
+    (["sheet", "{plan}", "--save", "--svg", "{tmp}/folder"],
+     "Error: --svg = '{tmp}/folder': a file name, not a folder", 2),
+    (["sheet", "show", "99"],
+     "Error: no loading sheet 99. List saved sheets with `wbledger sheet list`", 2),
+    (["sheet", "amend", "1", "--person", "pilot=250 lb"],
+     "Error: the change to sheet 1 is beyond the last-minute tolerance of type KV-P4 (20.0 lb "
+     "and 0 persons): it changes 70.0 lb and 0 persons; prepare a new sheet with `wbledger sheet "
+     "PLAN --save`", 2),
+    # --- inertia and ground vehicles ----------------------------------------------------------
+    (["inertia", "KVA-101", "--assume-z", "nan in"],
+     "Error: --assume-z = 'nan in': not a finite number; a length must be a finite number", 2),
+    (["inertia", "KVA-101", "--assume-z", "30 in", "--csv", "{tmp}/no-folder/i.csv"],
+     "Error: --csv = '{tmp}/no-folder/i.csv': a file that can be written (No such file or "
+     "directory)", 2),
+    (["corners", "KVA-T75", *CORNERS, "--rr", "-648 kg"],
+     "Error: --rr = '-648 kg': a mass of 0 or more", 2),
+    (["cg-height", "KVA-T75", *LIFT, "--angle", "8 deg", "--wheel-radius", "-0.4 m",
+      "--dry-run"], "Error: --wheel-radius = '-0.4 m': a length greater than 0", 2),
+    (["cg-height", "KVA-T75", *LIFT, "--angle", "95 deg", "--dry-run"],
+     "Error: --angle[1] = 95: a lift angle of 2° to 45°. Raise the axle further; a small angle "
+     "gives a load change lost in the scale resolution", 2),
+    # --- the database itself -------------------------------------------------------------------
+    (["--db", "sqlite:///{tmp}/no-folder/x.sqlite3", "init"],
+     "Error: --db = 'sqlite:///{tmp}/no-folder/x.sqlite3': a SQLite file in an existing folder; "
+     "'{tmp}/no-folder' is not one. Create the folder first, or correct the path", 2),
+    (["--db", "sqlite:///{tmp}/garbage.toml", "type", "list"],
+     "Error: --db = 'sqlite:///{tmp}/garbage.toml': a database that can be opened (file is not a "
+     "database). Check the path: a SQLite database file, or a new file name in an existing "
+     "folder", 2),
+    (["--db", "sqlite:///{tmp}/new.sqlite3", "vehicle", "list"],
+     "Error: the database sqlite:///{tmp}/new.sqlite3 has no wbledger schema; run `wbledger "
+     "init` first", 2),
+    (["--db", UNREACHABLE, "type", "list"],
+     f"Error: --db = '{UNREACHABLE}': a database that can be opened (connection failed: "
+     'connection to server at "127.0.0.1", port 1 failed: Connection refused). Check the URL, '
+     "and that the server is running and accepts connections", 2),
+    (["--db", "foo://bar", "type", "list"],
+     "Error: --db = 'foo://bar': a database wbledger supports; no dialect 'foo': use "
+     "sqlite:///PATH or postgresql+psycopg://USER@HOST/DBNAME", 2),
+    (["--db", "", "type", "list"],
+     "Error: --db = '': not a database URL; use sqlite:///PATH or "
+     "postgresql+psycopg://USER@HOST/DBNAME", 2),
+    (["--bogus"], "Error: No such option: --bogus (see `wbledger --help`)", 2),
+]
+
+
+def _ids(case) -> str:
+    return " ".join(a if len(a) < 24 else a[:21] + "…" for a in case[0])[:70]
+
+
+@pytest.mark.parametrize("args, expected, code", CASES, ids=[_ids(c) for c in CASES])
+def test_bad_input_is_one_line_and_writes_nothing(cli, files, args, expected, code):
+    fill = {"tmp": str(files), "plan": str(PLAN), "today": dt.date.today().isoformat()}
+    argv = [a.format(**fill) for a in args]
+    before = dump(cli.db_url)
+    res = cli(*argv)
+    assert (res.exit_code, res.stdout, res.stderr) == (code, "", expected.format(**fill) + "\n")
+    assert dump(cli.db_url) == before
+    # Nothing left behind either: no database file or folder made by a failed command.
+    assert not (files / "no-folder").exists()
+    assert not (files / "new.sqlite3").exists()
+
+
+def test_a_row_changed_by_hand_is_reported_in_one_line(cli):
+    """verify names the entry (exit 1); history refuses it in one line instead of failing."""
+    from ledger.store.db import make_engine
+
+    eng = make_engine(cli.db_url)
+    try:
+        with eng.begin() as conn:
+            conn.execute(text("UPDATE ledger_entries SET detail_json = '{bad' WHERE seq = 1 AND "
+                              "vehicle_id = (SELECT id FROM vehicles WHERE registration = "
+                              "'KVA-101')"))
+    finally:
+        eng.dispose()
+    before = dump(cli.db_url)
+    res = cli("verify", "KVA-101")
+    assert (res.exit_code, res.stderr) == (
+        1, "Error: the chain of KVA-101 does not verify: entry 1: its content does not match its "
+           "hash (a field was changed after it was written)\n")
+    res = cli("history", "KVA-101")
+    assert (res.exit_code, res.stdout, res.stderr) == (
+        1, "", "Error: entry 1 of KVA-101: its stored detail is not valid JSON; it was changed "
+               "outside wbledger. See `wbledger verify KVA-101`\n")
+    assert dump(cli.db_url) == before
+
+
+def test_a_date_that_is_not_a_date_is_reported_by_verify(cli):
+    """SQLite keeps any text in a DATE column: verify must report it, not raise."""
+    if not cli.db_url.startswith("sqlite"):
+        pytest.skip("PostgreSQL refuses a malformed date itself")
+    import sqlite3
+
+    con = sqlite3.connect(cli.db_url.removeprefix("sqlite:///"))
+    with con:
+        con.execute("UPDATE ledger_entries SET recorded_at = 'garbage' WHERE seq = 2")
+    con.close()
+    res = cli("verify", "KVA-101")
+    assert (res.exit_code, res.stderr) == (
+        1, "Error: the chain of KVA-101 does not verify: entry 2: its content cannot be read "
+           "(Invalid isoformat string: 'garbage')\n")
