@@ -1,6 +1,6 @@
 """``wbledger demo``: the main job end to end on a throw-away database of the invented demo fleet.
 
-It runs real commands, printing each one before its output, so the transcript doubles as a
+It runs real commands, printing each one before its output, so its output doubles as a
 tutorial: import the demo types, add the vehicles, record their first weighings (the invented
 scale readings of ``demo_fleet/README.md``), log an equipment change, print the running record,
 then loading sheets (one in limits with its PDF, one out of limits with its fixes, the truck with
