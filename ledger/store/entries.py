@@ -39,9 +39,10 @@ import json
 import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
+from functools import lru_cache
 from typing import Any, NamedTuple
 
-from sqlalchemy import bindparam, event, func, insert, literal, select
+from sqlalchemy import bindparam, event, func, insert, select, true
 from sqlalchemy.orm import Session
 
 from ledger.errors import ConflictError, InputError, NotFoundError
@@ -486,7 +487,7 @@ _INSERT = insert(_E.__table__)
 _head_sq = _HEAD.subquery("h")
 _item_sq = _ITEM.subquery("i")
 _HEAD_AND_ITEM = (select(*_head_sq.c, *_item_sq.c)
-                  .select_from(_head_sq.outerjoin(_item_sq, literal(True))))
+                  .select_from(_head_sq.outerjoin(_item_sq, true())))
 # SQLite only (see _locked_item_state): the vehicle too, in the same query.
 _vid_of_reg = (select(VehicleRow.id).where(VehicleRow.registration == bindparam("reg"))
                .scalar_subquery())
@@ -495,9 +496,81 @@ _item_sq2 = _newest(_ITEM_COLS, _vid_of_reg, True).subquery("i")
 _VEHICLE_HEAD_ITEM = (
     select(VehicleRow.id, VehicleRow.registration, VehicleRow.type_id, *_head_sq2.c,
            *_item_sq2.c)
-    .select_from(VehicleRow.__table__.outerjoin(_head_sq2, literal(True))
-                 .outerjoin(_item_sq2, literal(True)))
+    .select_from(VehicleRow.__table__.outerjoin(_head_sq2, true())
+                 .outerjoin(_item_sq2, true()))
     .where(VehicleRow.registration == bindparam("reg")))
+
+
+# --- SQLite driver-level statements ----------------------------------------------------------
+# A single append is one short transaction, and SQLAlchemy's per-statement work (cache look-up,
+# parameter and result processing) costs about as much as SQLite's own insert. On SQLite the
+# two statements of an append therefore go to the driver (sqlite3, on the session's connection
+# and in its transaction) as plain SQL and tuples, converted by
+# SQLAlchemy's own SQLite bind and result processors so that values are stored and read back
+# exactly as through the ORM (tests/store check both paths against each other).
+
+class SqliteInsert(NamedTuple):
+    """The entry insert as SQLite driver SQL: column names and the bind converters by index."""
+
+    sql: str
+    cols: tuple[str, ...]
+    converters: tuple[tuple[int, Any], ...]
+
+    def memo(self) -> tuple[dict, ...]:
+        """Empty memos for :meth:`row` (one per converter), for a bulk insert."""
+        return tuple({} for _ in self.converters)
+
+    def row(self, values: Mapping[str, Any], memo: tuple[dict, ...] | None = None) -> tuple:
+        """``values`` (column → value) as the driver's parameter tuple; with ``memo`` each
+        distinct value is converted once."""
+        t = [values[c] for c in self.cols]
+        for n, (k, proc) in enumerate(self.converters):
+            v = t[k]
+            if v is None:
+                continue
+            if memo is None:
+                t[k] = proc(v)
+            else:
+                seen = memo[n]
+                done = seen.get(v)
+                if done is None:
+                    done = seen[v] = proc(v)
+                t[k] = done
+        return tuple(t)
+
+
+def _driver(conn):
+    """The sqlite3 connection under ``conn``, in ``conn``'s transaction."""
+    return conn.connection.driver_connection
+
+
+@lru_cache(maxsize=4)
+def sqlite_insert(dialect) -> SqliteInsert:
+    table = _E.__table__
+    cols = tuple(c.name for c in table.columns if c.name != "id")
+    converters = []
+    for k, name in enumerate(cols):
+        proc = table.c[name].type.dialect_impl(dialect).bind_processor(dialect)
+        if proc is not None:
+            converters.append((k, proc))
+    sql = (f"INSERT INTO {table.name} ({', '.join(cols)}) "
+           f"VALUES ({', '.join('?' for _ in cols)})")
+    return SqliteInsert(sql, cols, tuple(converters))
+
+
+@lru_cache(maxsize=4)
+def _sqlite_vehicle_head_item(dialect):
+    """(SQL, parameter names in order, fixed parameters (the limits), result converters by
+    column) of _VEHICLE_HEAD_ITEM."""
+    compiled = _VEHICLE_HEAD_ITEM.compile(dialect=dialect)
+    fixed = {n: compiled.binds[n].effective_value for n in compiled.positiontup
+             if n not in ("reg", "item")}
+    procs = []
+    for k, col in enumerate(_VEHICLE_HEAD_ITEM.selected_columns):
+        proc = col.type.dialect_impl(dialect).result_processor(dialect, None)
+        if proc is not None:
+            procs.append((k, proc))
+    return compiled.string, tuple(compiled.positiontup), fixed, tuple(procs)
 
 
 def _head(session: Session, vehicle_id: int):
@@ -639,7 +712,12 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
         if values[k] is not None:
             values[k] = float(values[k]) + 0.0
     values["entry_hash"] = content_hash(values, vehicle.registration)
-    new_id = session.connection().execute(_INSERT, values).inserted_primary_key[0]
+    conn = session.connection()
+    if conn.dialect.name == "sqlite":
+        plan = sqlite_insert(conn.dialect)
+        new_id = _driver(conn).execute(plan.sql, plan.row(values)).lastrowid
+    else:
+        new_id = conn.execute(_INSERT, values).inserted_primary_key[0]
     values.pop("vehicle_id")
     values["z_known"] = bool(z_known)
     return Entry(registration=vehicle.registration, id=new_id, **values)
@@ -667,7 +745,13 @@ def _locked_item_state(session: Session, registration: str, name: str):
     if conn.dialect.name != "sqlite":
         vehicle = _vehicle(session, registration, lock=True)
         return (vehicle, *_head_and_item(session, vehicle.id, name))
-    row = conn.execute(_VEHICLE_HEAD_ITEM, {"reg": registration, "item": name}).first()
+    sql, names, fixed, procs = _sqlite_vehicle_head_item(conn.dialect)
+    params = {**fixed, "reg": registration, "item": name}
+    row = _driver(conn).execute(sql, tuple(params[n] for n in names)).fetchone()
+    if row is not None:
+        row = list(row)
+        for k, proc in procs:
+            row[k] = proc(row[k])
     if row is None:
         from ledger.store.catalog import get_vehicle
 

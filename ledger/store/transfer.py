@@ -602,7 +602,8 @@ def _insert_rows(conn, rows: list[dict], chunk: int,
 
     On SQLite the rows go to the driver as tuples, with dates and timestamps converted by
     SQLAlchemy's own SQLite bind processors (so they are stored exactly as the ORM stores
-    them, and read back the same), each distinct value once: this skips SQLAlchemy's per-row
+    them, and read back the same; :func:`ledger.store.entries.sqlite_insert`), each distinct
+    value once: this skips SQLAlchemy's per-row
     parameter processing, which otherwise costs more than the insert itself. Elsewhere it is a
     plain Core ``executemany`` of the dicts.
     """
@@ -617,27 +618,13 @@ def _insert_rows(conn, rows: list[dict], chunk: int,
             if progress is not None:
                 progress(written)
         return
-    cols = [c.name for c in table.columns if c.name != "id"]
-    sql = (f"INSERT INTO {table.name} ({', '.join(cols)}) "
-           f"VALUES ({', '.join('?' for _ in cols)})")
-    converters = []
-    for k, name in enumerate(cols):
-        proc = table.c[name].type.dialect_impl(conn.dialect).bind_processor(conn.dialect)
-        if proc is not None:
-            converters.append((k, proc, {}))
+    from ledger.store.entries import sqlite_insert
+
+    plan = sqlite_insert(conn.dialect)
+    memo = plan.memo()
     for i in range(0, len(rows), chunk):
-        batch = []
-        for r in rows[i:i + chunk]:
-            t = [r[c] for c in cols]
-            for k, proc, cache in converters:
-                v = t[k]
-                done = cache.get(v)
-                if done is None:
-                    done = cache[v] = proc(v)
-                t[k] = done
-            batch.append(tuple(t))
-        conn.exec_driver_sql(sql, batch)
-        written += len(batch)
+        conn.exec_driver_sql(plan.sql, [plan.row(r, memo) for r in rows[i:i + chunk]])
+        written += min(chunk, len(rows) - i)
         if progress is not None:
             progress(written)
 
