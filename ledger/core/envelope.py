@@ -25,6 +25,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from ledger.core._jit import kernels
 from ledger.errors import EnvelopeError, InputError
 
 __all__ = [
@@ -318,6 +319,8 @@ def _shape_out(a: np.ndarray, shape):
 
 
 # --------------------------------------------------------------------------- containment
+# Non-finite points are valid input here (never covered): no warnings for their NaNs.
+@np.errstate(invalid="ignore")
 def _covers_exact(P: np.ndarray, qx: np.ndarray, qy: np.ndarray, tol: float) -> np.ndarray:
     """Reference test: crossing-number parity, or distance to the boundary <= tol."""
     x1, y1 = P[:, 0], P[:, 1]
@@ -586,6 +589,8 @@ class SweepEnvelope:
         # One contiguous table per coefficient: gathering each into a contiguous buffer is
         # faster than gathering whole rows and then working on strided columns.
         self._tabs = [np.ascontiguousarray(tab[:, j]) for j in range(4 * K)]
+        # Whole rows for the compiled kernels (ledger.core._jit), which read one row per point.
+        self._table = np.ascontiguousarray(tab)
         self._origin = float(origin)
         self._inv = float(1.0 / cw) if self._grid else 0.0
         self._K = K
@@ -686,12 +691,19 @@ class SweepEnvelope:
         n = X.size
         inside = np.empty(n, dtype=bool)
         margin = np.empty(n)
-        work = self._work(min(_SWEEP_CHUNK, max(n, 1)))
         near: list = []
-        with np.errstate(invalid="ignore", over="ignore"):
-            for s in range(0, n, _SWEEP_CHUNK):
-                e = min(n, s + _SWEEP_CHUNK)
-                self._chunk(X[s:e], Y[s:e], inside[s:e], margin[s:e], work, s, near)
+        jit = kernels() if self._grid else None
+        if jit is not None:
+            idx = np.empty(n, dtype=np.intp)
+            k = jit[1](X, Y, self._origin, self._inv, self._table, self._K, self._thr,
+                       inside, margin, idx, 0, n)
+            near.append(idx[:k])
+        else:
+            work = self._work(min(_SWEEP_CHUNK, max(n, 1)))
+            with np.errstate(invalid="ignore", over="ignore"):
+                for s in range(0, n, _SWEEP_CHUNK):
+                    e = min(n, s + _SWEEP_CHUNK)
+                    self._chunk(X[s:e], Y[s:e], inside[s:e], margin[s:e], work, s, near)
         self._fix(X, Y, inside, margin, near)
         return Assessment(_shape_out(inside, shape), _shape_out(margin, shape))
 
@@ -751,6 +763,8 @@ def _snap(v: np.ndarray, levels: np.ndarray, tol: float) -> np.ndarray:
     return np.where(np.abs(v - near) <= tol, near, v)
 
 
+# Non-finite points are valid input here (never covered): no warnings for their NaNs.
+@np.errstate(invalid="ignore")
 def _section(P: np.ndarray, u: np.ndarray, v: np.ndarray, tol: float):
     """Section of the closed polygon by the line y = v: the component [lo, hi] that contains u,
     or else the nearest one (the forward one on a tie); NaN where the line misses the polygon.

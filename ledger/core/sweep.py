@@ -6,17 +6,21 @@ what :func:`ledger.core.massprops.mass_properties` and :func:`ledger.core.envelo
 (CG = Σ m·arm ÷ Σ m, FAA-H-8083-1), in one pass over the masses: the cases are processed in
 chunks that stay in the CPU cache, each chunk's total mass and moment come from one matrix
 product, and the verdict and margin from an envelope prepared with
-:func:`ledger.core.envelope.prepare_sweep`.
+:func:`ledger.core.envelope.prepare_sweep`. With numba installed (``wbledger[fast]``) one
+compiled pass per case replaces the chunks' numpy passes (:mod:`ledger.core._jit`), with the
+same results; ``WBLEDGER_JIT=0`` turns it off.
 """
 
 from __future__ import annotations
 
 import os
 from concurrent.futures import ThreadPoolExecutor
+from functools import lru_cache
 from typing import NamedTuple
 
 import numpy as np
 
+from ledger.core._jit import kernels
 from ledger.core.envelope import prepare_sweep
 from ledger.core.massprops import mass_properties
 from ledger.errors import InputError, MassPropertiesError
@@ -52,16 +56,30 @@ class SweepResult(NamedTuple):
     margin: np.ndarray
 
 
+@lru_cache(maxsize=1)
+def _pool() -> ThreadPoolExecutor:
+    # One pool for the process: starting threads on every sweep costs a few percent of a
+    # million-case sweep. The calling thread runs one share itself.
+    return ThreadPoolExecutor(max_workers=max(1, _cores() - 1), thread_name_prefix="sweep")
+
+
+def _cores() -> int:
+    try:
+        return len(os.sched_getaffinity(0))
+    except AttributeError:              # not on every platform
+        return os.cpu_count() or 1
+
+
 def _threads(threads, n: int) -> int:
     if threads is None:
-        return 1
+        return max(1, min(_cores(), -(-n // _CHUNK)))
     try:
         value = int(threads)
     except (TypeError, ValueError):
         value = 0
     if value != threads or value < 1:
         raise InputError("threads", threads, "a whole number of threads, 1 or more")
-    return max(1, min(value, os.cpu_count() or 1, -(-n // _CHUNK)))
+    return max(1, min(value, _cores(), -(-n // _CHUNK)))
 
 
 def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult:
@@ -82,8 +100,8 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
     tol : float, optional
         Tolerance as in :func:`~ledger.core.envelope.covers`.
     threads : int, optional
-        Threads to share the chunks (numpy releases the GIL in its loops); default 1. More
-        than the CPU count or the number of chunks is reduced to that.
+        Threads to share the cases (the kernels release the GIL); default: the cores this
+        process may use. More than that or than the number of chunks is reduced to that.
 
     Returns
     -------
@@ -137,7 +155,18 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
     inside = np.empty(n, dtype=bool)
     margin = np.empty(n)
 
-    def run(start: int, stop: int):
+    jit = kernels() if env._grid else None
+    a_c = np.ascontiguousarray(a)
+
+    def run_jit(start: int, stop: int):
+        # One compiled pass (ledger.core._jit); the same screens and the same exact-scan
+        # points as the numpy chunks below.
+        idx = np.empty(stop - start, dtype=np.intp)
+        negative, finite, k = jit[0](M, a_c, env._origin, env._inv, env._table, env._K,
+                                     env._thr, mass, cg, inside, margin, idx, start, stop)
+        return finite and not negative, [idx[:k]]
+
+    def run_numpy(start: int, stop: int):
         work = env._work(_CHUNK)
         near: list = []
         ok = True
@@ -156,6 +185,7 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
                 env._chunk(X, W, inside[s:e], margin[s:e], work, s, near)
         return ok, near
 
+    run = run_numpy if jit is None else run_jit
     k = _threads(threads, n) if n >= _THREAD_MIN else 1
     if k == 1:
         parts = [run(0, n)]
@@ -163,9 +193,9 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
         chunks = -(-n // _CHUNK)
         per = -(-chunks // k) * _CHUNK                      # whole chunks per thread
         bounds = [(i * per, min(n, (i + 1) * per)) for i in range(k) if i * per < n]
-        with ThreadPoolExecutor(max_workers=len(bounds) - 1) as pool:
-            futures = [pool.submit(run, lo, hi) for lo, hi in bounds[1:]]
-            parts = [run(*bounds[0])] + [f.result() for f in futures]
+        pool = _pool()
+        futures = [pool.submit(run, lo, hi) for lo, hi in bounds[1:]]
+        parts = [run(*bounds[0])] + [f.result() for f in futures]
     if not all(ok for ok, _ in parts):
         mass_properties(m, a)             # raises, naming the case and the item
         if not (np.all(np.isfinite(cg))):
