@@ -353,3 +353,29 @@ def test_a_date_that_is_not_a_date_is_reported_by_verify(cli):
     assert (res.exit_code, res.stderr) == (
         1, "Error: the chain of KVA-101 does not verify: entry 2: its content cannot be read "
            "(Invalid isoformat string: 'garbage')\n")
+    # The commands that read the row report it in one line too, exit 1, and write nothing.
+    before = dump(cli.db_url)
+    line = ("Error: a value stored in the database cannot be read (Invalid isoformat string: "
+            "'garbage'): it was changed outside wbledger; `wbledger verify` names the entry\n")
+    res = cli("history", "KVA-101")
+    assert (res.exit_code, res.stdout, res.stderr) == (1, "", line)
+    assert dump(cli.db_url) == before
+
+
+def test_an_impossible_date_is_reported_in_one_line(cli):
+    if not cli.db_url.startswith("sqlite"):
+        pytest.skip("PostgreSQL refuses a malformed date itself")
+    import sqlite3
+
+    con = sqlite3.connect(cli.db_url.removeprefix("sqlite:///"))
+    with con:
+        con.execute("UPDATE ledger_entries SET entry_date = '2025-13-45' WHERE seq = 2")
+    con.close()
+    for args in (("history", "KVA-101"), ("vehicle", "list")):
+        res = cli(*args)
+        assert (res.exit_code, res.stdout, res.stderr) == (
+            1, "", "Error: a value stored in the database cannot be read (month must be in "
+                   "1..12): it was changed outside wbledger; `wbledger verify` names the entry\n"
+        ), args
+    res = cli("verify", "KVA-101")
+    assert res.exit_code == 1 and "entry 2" in res.stderr
