@@ -339,43 +339,44 @@ def test_a_row_changed_by_hand_is_reported_in_one_line(cli):
     assert dump(cli.db_url) == before
 
 
-def test_a_date_that_is_not_a_date_is_reported_by_verify(cli):
-    """SQLite keeps any text in a DATE column: verify must report it, not raise."""
+def _edit_sqlite_date(cli, column: str, value: str) -> None:
+    """Write text that is not a valid date into entry 2 of KVA-101 behind the ledger's back
+    (SQLite keeps any text in a DATE column; PostgreSQL refuses it itself)."""
     if not cli.db_url.startswith("sqlite"):
         pytest.skip("PostgreSQL refuses a malformed date itself")
     import sqlite3
 
     con = sqlite3.connect(cli.db_url.removeprefix("sqlite:///"))
     with con:
-        con.execute("UPDATE ledger_entries SET recorded_at = 'garbage' WHERE seq = 2")
+        con.execute(f"UPDATE ledger_entries SET {column} = ? WHERE seq = 2", (value,))
     con.close()
+
+
+def _unreadable(why: str) -> str:
+    return (f"Error: a value stored in the database cannot be read ({why}): it was changed "
+            "outside wbledger; `wbledger verify` names the entry\n")
+
+
+def test_a_date_that_is_not_a_date_is_reported_by_verify(cli):
+    """verify must report it, not raise; the commands that read the row report it in one line
+    too, exit 1, and write nothing."""
+    _edit_sqlite_date(cli, "recorded_at", "garbage")
     res = cli("verify", "KVA-101")
     assert (res.exit_code, res.stderr) == (
         1, "Error: the chain of KVA-101 does not verify: entry 2: its content cannot be read "
            "(Invalid isoformat string: 'garbage')\n")
-    # The commands that read the row report it in one line too, exit 1, and write nothing.
     before = dump(cli.db_url)
-    line = ("Error: a value stored in the database cannot be read (Invalid isoformat string: "
-            "'garbage'): it was changed outside wbledger; `wbledger verify` names the entry\n")
     res = cli("history", "KVA-101")
-    assert (res.exit_code, res.stdout, res.stderr) == (1, "", line)
+    assert (res.exit_code, res.stdout, res.stderr) == (
+        1, "", _unreadable("Invalid isoformat string: 'garbage'"))
     assert dump(cli.db_url) == before
 
 
 def test_an_impossible_date_is_reported_in_one_line(cli):
-    if not cli.db_url.startswith("sqlite"):
-        pytest.skip("PostgreSQL refuses a malformed date itself")
-    import sqlite3
-
-    con = sqlite3.connect(cli.db_url.removeprefix("sqlite:///"))
-    with con:
-        con.execute("UPDATE ledger_entries SET entry_date = '2025-13-45' WHERE seq = 2")
-    con.close()
+    _edit_sqlite_date(cli, "entry_date", "2025-13-45")
     for args in (("history", "KVA-101"), ("vehicle", "list")):
         res = cli(*args)
         assert (res.exit_code, res.stdout, res.stderr) == (
-            1, "", "Error: a value stored in the database cannot be read (month must be in "
-                   "1..12): it was changed outside wbledger; `wbledger verify` names the entry\n"
-        ), args
+            1, "", _unreadable("month must be in 1..12")), args
     res = cli("verify", "KVA-101")
     assert res.exit_code == 1 and "entry 2" in res.stderr
