@@ -157,18 +157,22 @@ def _python_case_factory(P: np.ndarray, tol: float):
 
 
 def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int = 5,
-                        threads=None) -> float:
+                        thread_settings=(None, 1)) -> list[float]:
+    """Ratio for each ``threads`` setting of ``sweep_cases`` (None: its default, the cores)."""
     rng = np.random.default_rng(20240602)
     arms = np.array([a for a, _, _ in ITEMS])
     lo = np.array([m for _, m, _ in ITEMS])
     hi = np.array([m for _, _, m in ITEMS])
     masses = rng.uniform(lo, hi, size=(n, len(ITEMS)))
 
-    def vectorised():
+    def vectorised(threads=None):
         r = sweep_cases(masses, arms, ENVELOPE, threads=threads)
         return r.mass, r.cg, r.inside, r.margin
 
     mass, cg, inside, margin = vectorised()
+    for threads in thread_settings:     # each case is computed alike however the cases are split
+        assert all(np.array_equal(a, b) for a, b in zip(vectorised(threads),
+                                                        (mass, cg, inside, margin)))
     # The sweep must give the results of the unprepared path on every case: mass_properties,
     # then assess (itself checked against shapely in envelope_covers_1M and the tests).
     mp = mass_properties(masses, arms)
@@ -201,16 +205,19 @@ def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int 
     assert np.array_equal(py_margin[~finite], margin[:n_python][~finite])
     assert np.allclose(py_margin[finite], margin[:n_python][finite], rtol=0, atol=1e-9)
 
-    t_vec, t_py = _best_pair(vectorised, python_loop, repeat, runs_a=3)
-    return t_py / n_python * n / t_vec
+    ratios = []
+    for threads in thread_settings:
+        t_vec, t_py = _best_pair(lambda: vectorised(threads), python_loop, repeat, runs_a=3)
+        ratios.append(t_py / n_python * n / t_vec)
+    return ratios
 
 
 def main() -> None:
     print(f"bench envelope_covers_1M: ratio {bench_envelope_covers():.2f} (target 5)", flush=True)
+    cores, one = bench_loading_sweep()
     kernel = "compiled (numba)" if kernels() else "numpy (no numba, or WBLEDGER_JIT=0)"
-    print(f"# loading_sweep_1M kernel: {kernel}; one thread: ratio "
-          f"{bench_loading_sweep(threads=1):.1f}", flush=True)
-    print(f"bench loading_sweep_1M: ratio {bench_loading_sweep():.1f} (target 200)", flush=True)
+    print(f"# loading_sweep_1M kernel: {kernel}; one thread: ratio {one:.1f}", flush=True)
+    print(f"bench loading_sweep_1M: ratio {cores:.1f} (target 200)", flush=True)
 
 
 if __name__ == "__main__":

@@ -145,6 +145,20 @@ class ChainError(LedgerError):
     exit_code = 1
 
 
+class StoredDataError(LedgerError):
+    """A value stored in the database cannot be read back (it was changed outside wbledger)."""
+
+    exit_code = 1
+
+    def __init__(self, why: str) -> None:
+        super().__init__(why)
+        self.why = why
+
+    def __str__(self) -> str:
+        return (f"a value stored in the database cannot be read ({self.why}): it was changed "
+                "outside wbledger; `wbledger verify` names the entry")
+
+
 class CorrectionError(InputError):
     """A proposed fix cannot work (ballast on the wrong side of a limit, no room under a limit)."""
 

@@ -56,25 +56,7 @@ class _LedgerGroup(TyperGroup):
 
             if isinstance(exc, LedgerError):
                 common.fail(str(exc), exc.exit_code)
-            if _unreadable_stored_value(exc):
-                common.fail(f"a value stored in the database cannot be read ({exc}): it was "
-                            "changed outside wbledger; `wbledger verify` names the entry", 1)
             raise
-
-
-def _unreadable_stored_value(exc: BaseException) -> bool:
-    """Whether ``exc`` is SQLAlchemy failing to convert a stored value as it reads a row (SQLite
-    keeps any text in a DATE or DATETIME column, so a hand edit can leave one unreadable)."""
-    if not isinstance(exc, ValueError):
-        return False
-    tb = exc.__traceback__
-    while tb is not None and tb.tb_next is not None:
-        tb = tb.tb_next
-    if tb is None:
-        return False
-    code = tb.tb_frame.f_code
-    where = code.co_filename.replace("\\", "/")
-    return "sqlalchemy/" in where and ("processor" in where or "process" in code.co_name)
 
 
 app = typer.Typer(

@@ -3,9 +3,10 @@
 The numpy kernels of :mod:`ledger.core.sweep` and :class:`ledger.core.envelope.SweepEnvelope`
 make about twenty passes over each chunk of cases; these kernels make one, reading each case's
 masses once (the masses of a large sweep do not fit in any cache, so memory traffic sets the
-pace). They compute exactly what the numpy kernels compute and leave the same points to the
-exact scan: a point whose computed margin is within ``thr`` of zero, in a mixed cell of the
-table (NaN coefficients), or with a non-finite mass or CG.
+pace). They give the numpy kernels' verdicts, their totals and margins to rounding (the sums
+may run in another order), and leave the same points to the exact scan: a point whose
+computed margin is within ``thr`` of zero, in a mixed cell of the table (NaN coefficients), or
+with a non-finite mass or CG.
 
 numba is optional (``pip install 'wbledger[fast]'``). Without it, or with the environment
 variable ``WBLEDGER_JIT=0``, :func:`kernels` returns None and callers use numpy.

@@ -8,7 +8,7 @@ chunks that stay in the CPU cache, each chunk's total mass and moment come from 
 product, and the verdict and margin from an envelope prepared with
 :func:`ledger.core.envelope.prepare_sweep`. With numba installed (``wbledger[fast]``) one
 compiled pass per case replaces the chunks' numpy passes (:mod:`ledger.core._jit`), with the
-same results; ``WBLEDGER_JIT=0`` turns it off.
+same verdicts and the same figures to rounding; ``WBLEDGER_JIT=0`` turns it off.
 """
 
 from __future__ import annotations

@@ -25,7 +25,7 @@ from sqlalchemy import Engine, create_engine, event, inspect
 from sqlalchemy.engine import Connection, make_url
 from sqlalchemy.orm import Session, sessionmaker
 
-from ledger.errors import DatabaseOpenError, InputError, SchemaError
+from ledger.errors import DatabaseOpenError, InputError, LedgerError, SchemaError, StoredDataError
 
 __all__ = [
     "ENV_VAR",
@@ -167,7 +167,27 @@ def session_scope(engine: Engine) -> Iterator[Session]:
     if factory is None:
         factory = _FACTORIES[engine] = sessionmaker(engine, expire_on_commit=False)
     with factory() as session, session.begin():
-        yield session
+        try:
+            yield session
+        except ValueError as exc:
+            if _unreadable_stored_value(exc):
+                raise StoredDataError(str(exc)) from exc
+            raise
+
+
+def _unreadable_stored_value(exc: ValueError) -> bool:
+    """Whether ``exc`` is SQLAlchemy failing to convert a stored value as it reads a row (SQLite
+    keeps any text in a DATE or DATETIME column, so a hand edit can leave one unreadable)."""
+    if isinstance(exc, LedgerError):
+        return False
+    tb = exc.__traceback__
+    while tb is not None and tb.tb_next is not None:
+        tb = tb.tb_next
+    if tb is None:
+        return False
+    code = tb.tb_frame.f_code
+    where = code.co_filename.replace("\\", "/")
+    return "sqlalchemy/" in where and ("processor" in where or "process" in code.co_name)
 
 
 # --- migrations -------------------------------------------------------------------------------

@@ -521,17 +521,12 @@ class SqliteInsert(NamedTuple):
         return tuple({} for _ in self.converters)
 
     def row(self, values: Mapping[str, Any], memo: tuple[dict, ...] | None = None) -> tuple:
-        """``values`` (column → value) as the driver's parameter tuple; with ``memo`` each
-        distinct value is converted once."""
+        """``values`` (column → value) as the driver's parameter tuple; a ``memo`` kept across
+        the rows of a bulk insert converts each distinct value once."""
         t = [values[c] for c in self.cols]
-        for n, (k, proc) in enumerate(self.converters):
+        for (k, proc), seen in zip(self.converters, memo or self.memo()):
             v = t[k]
-            if v is None:
-                continue
-            if memo is None:
-                t[k] = proc(v)
-            else:
-                seen = memo[n]
+            if v is not None:
                 done = seen.get(v)
                 if done is None:
                     done = seen[v] = proc(v)

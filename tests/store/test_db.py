@@ -8,7 +8,7 @@ import pytest
 from alembic import command
 from alembic.autogenerate import compare_metadata
 from alembic.runtime.migration import MigrationContext
-from sqlalchemy import inspect, text
+from sqlalchemy import inspect, select, text
 
 from ledger.errors import SchemaError
 from ledger.store.db import (
@@ -20,7 +20,7 @@ from ledger.store.db import (
     make_engine,
     upgrade,
 )
-from ledger.store.models import Base
+from ledger.store.models import Base, VehicleTypeRow
 
 TABLES = {"vehicle_types", "type_revisions", "vehicles", "ledger_entries", "configurations",
           "loading_sheets", "alembic_version"}
@@ -119,3 +119,26 @@ def test_bad_url_is_an_input_error():
     with pytest.raises(InputError) as err:
         make_engine("not a url at all")
     assert str(err.value).startswith("--db = 'not a url at all': not a database URL")
+
+
+def test_an_unreadable_stored_date_is_a_stored_data_error(sqlite_url):
+    # SQLite keeps any text in a DATE column; reading it back must give the ledger's own error
+    # (exit 1, naming verify), while other ValueErrors pass through unchanged.
+    from ledger.errors import StoredDataError
+    from ledger.store.db import session_scope
+
+    eng = make_engine(sqlite_url)
+    upgrade(eng)
+    con = sqlite3.connect(sqlite_url.removeprefix("sqlite:///"))
+    with con:
+        con.execute("INSERT INTO vehicle_types (name, created_at) VALUES ('X', 'not a time')")
+    con.close()
+    with pytest.raises(StoredDataError) as err, session_scope(eng) as s:
+        s.execute(text("SELECT 1")).all()
+        s.execute(select(VehicleTypeRow.created_at)).all()
+    assert err.value.exit_code == 1
+    assert str(err.value).startswith("a value stored in the database cannot be read (")
+    with pytest.raises(ValueError, match="^plain$") as plain, session_scope(eng):
+        raise ValueError("plain")
+    assert not isinstance(plain.value, StoredDataError)
+    eng.dispose()
