@@ -1,10 +1,13 @@
-"""Compiled kernels for the prepared-envelope sweep, used when numba is installed.
+"""Compiled kernels for the prepared envelope, used when numba is installed.
 
 The numpy kernels of :mod:`ledger.core.sweep` and :class:`ledger.core.envelope.SweepEnvelope`
-make about twenty passes over each chunk of cases; these kernels make one, reading each case's
-masses once (the masses of a large sweep do not fit in any cache, so memory traffic sets the
-pace). They give the numpy kernels' verdicts, their totals and margins to rounding (the sums
-may run in another order), and leave the same points to the exact scan: a point whose
+make about twenty passes over each chunk of cases; these kernels read each case's masses once
+(the masses of a large sweep do not fit in any cache) and make three or four simple passes over
+each block of a few thousand cases while its figures are in cache: totals and CG; cell, margin
+and verdict; the points for the exact scan. The compiler vectorises such simple loops across
+cases, which it does not for one loop doing all of it per case (1.4 times the time on one
+thread here). They give the numpy kernels' verdicts, their totals and margins to rounding (the
+sums may run in another order), and leave the same points to the exact scan: a point whose
 computed margin is within ``thr`` of zero, in a mixed cell of the table (NaN coefficients), or
 with a non-finite mass or CG.
 
@@ -34,6 +37,11 @@ def kernels():
     return _build(numba)
 
 
+# Cases per block: each block's totals, CGs, margins, verdicts and cells (33 bytes a case) stay
+# in L2 between the passes over it; 1024 to 8192 measured alike here.
+_BLOCK = 4096
+
+
 def _build(numba):
     # Re-association lets the per-case sums over the items vectorise; the sum's rounding stays
     # within the n·eps bound of any summation order of non-negative terms. NaN and infinity
@@ -43,20 +51,52 @@ def _build(numba):
                      fastmath={"reassoc", "contract"})
 
     @jit
-    def _verdict(x, w, origin, inv, top, tabs, K):
-        """Margin of one point from the table; NaN in a mixed cell (whose row is all NaN)."""
-        v = (w - origin) * inv
-        if not v >= 0.0:            # below the grid, or NaN: the end cell, never out of range
-            v = 0.0
-        if v > top:
-            v = top
-        c = int(v)
-        best = min(x - tabs[c, 0] * w - tabs[c, 1],         # to the forward crossing
-                   tabs[c, 3] - (x - tabs[c, 2] * w))       # to the aft crossing
-        for q in range(1, K):
-            best = max(best, min(x - tabs[c, 4 * q] * w - tabs[c, 4 * q + 1],
-                                 tabs[c, 4 * q + 3] - (x - tabs[c, 4 * q + 2] * w)))
-        return best
+    def _verdicts(X, W, origin, inv, tabs, K, thr, points_finite, inside, margin, near, nn,
+                  cell, offset):
+        """Verdicts and margins of the points of one block (``X``, ``W``, ``inside`` and
+        ``margin`` are the block's views; ``cell`` is scratch at least as long), and their
+        indices plus ``offset`` in ``near`` (from ``nn`` on) where the margin is within ``thr``
+        of 0 or NaN (a mixed cell, whose row is all NaN), or, unless ``points_finite`` (the
+        caller has screened them), where a coordinate is not finite; returns the new count.
+        Each pass is a simple loop over the block, which the compiler vectorises."""
+        top = tabs.shape[0] - 1.0
+        n = X.shape[0]
+        for i in range(n):
+            x = X[i]
+            w = W[i]
+            v = (w - origin) * inv
+            if not v >= 0.0:            # below the grid, or NaN: the end cell, never out of range
+                v = 0.0
+            if v > top:
+                v = top
+            c = int(v)
+            cell[i] = c
+            t = min(x - tabs[c, 0] * w - tabs[c, 1],                # to the forward crossing
+                    tabs[c, 3] - (x - tabs[c, 2] * w))              # to the aft crossing
+            margin[i] = t
+            inside[i] = t >= 0.0
+        if K > 1:                       # further intervals of the row (a non-convex envelope)
+            for q in range(1, K):
+                for i in range(n):
+                    c = cell[i]
+                    x = X[i]
+                    w = W[i]
+                    margin[i] = max(margin[i],
+                                    min(x - tabs[c, 4 * q] * w - tabs[c, 4 * q + 1],
+                                        tabs[c, 4 * q + 3] - (x - tabs[c, 4 * q + 2] * w)))
+            for i in range(n):
+                inside[i] = margin[i] >= 0.0
+        if points_finite:
+            for i in range(n):
+                if not abs(margin[i]) > thr:
+                    near[nn] = offset + i
+                    nn += 1
+        else:
+            for i in range(n):
+                if not abs(margin[i]) > thr or not abs(X[i]) < np.inf or not abs(W[i]) < np.inf:
+                    near[nn] = offset + i
+                    nn += 1
+        return nn
 
     @jit
     def sweep_range(M, arms, origin, inv, tabs, K, thr, mass, cg, inside, margin, near, s, e):
@@ -64,45 +104,43 @@ def _build(numba):
         whether the sum of the CGs is finite, number of points written to ``near`` for the
         exact scan)."""
         p = M.shape[1]
-        top = tabs.shape[0] - 1.0
         negative = False
         total = 0.0
         nn = 0
-        for i in range(s, e):
-            w = 0.0
-            mo = 0.0
-            for j in range(p):
-                m = M[i, j]
-                w += m
-                mo += m * arms[j]
-                negative |= m < 0.0
-            x = mo / w
-            mass[i] = w
-            cg[i] = x
-            total += x
-            t = _verdict(x, w, origin, inv, top, tabs, K)
-            margin[i] = t
-            inside[i] = t >= 0.0
-            if not abs(t) > thr:
-                near[nn] = i
-                nn += 1
+        cell = np.empty(_BLOCK, dtype=np.intp)
+        for b in range(s, e, _BLOCK):
+            b_end = min(e, b + _BLOCK)
+            for i in range(b, b_end):
+                w = 0.0
+                mo = 0.0
+                for j in range(p):
+                    m = M[i, j]
+                    w += m
+                    mo += m * arms[j]
+                    negative |= m < 0.0
+                x = mo / w
+                mass[i] = w
+                cg[i] = x
+                total += x
+            # A non-finite mass or CG fails the screens below, and the sweep raises.
+            nn = _verdicts(cg[b:b_end], mass[b:b_end], origin, inv, tabs, K, thr, True,
+                           inside[b:b_end], margin[b:b_end], near, nn, cell, b)
         # A NaN mass, a zero total, an infinite mass or moment: a non-finite sum of the CGs.
         return negative, abs(total) < np.inf, nn
 
     @jit
     def assess_range(X, Y, origin, inv, tabs, K, thr, inside, margin, near, s, e):
-        """Points ``s:e``: verdict and margin; returns the number written to ``near``."""
-        top = tabs.shape[0] - 1.0
+        """Points ``s:e``: verdict and margin; returns the number written to ``near``. With
+        an empty ``margin`` only the verdicts are written (each block's margins go to
+        scratch)."""
         nn = 0
-        for i in range(s, e):
-            x = X[i]
-            w = Y[i]
-            t = _verdict(x, w, origin, inv, top, tabs, K)
-            margin[i] = t
-            inside[i] = t >= 0.0
-            if not abs(t) > thr or not abs(x) < np.inf or not abs(w) < np.inf:
-                near[nn] = i
-                nn += 1
+        cell = np.empty(_BLOCK, dtype=np.intp)
+        scratch = np.empty(_BLOCK if margin.shape[0] == 0 else 0)
+        for b in range(s, e, _BLOCK):
+            b_end = min(e, b + _BLOCK)
+            mb = scratch[:b_end - b] if margin.shape[0] == 0 else margin[b:b_end]
+            nn = _verdicts(X[b:b_end], Y[b:b_end], origin, inv, tabs, K, thr, False,
+                           inside[b:b_end], mb, near, nn, cell, b)
         return nn
 
     return sweep_range, assess_range

@@ -13,17 +13,15 @@ same verdicts and the same figures to rounding; ``WBLEDGER_JIT=0`` turns it off.
 
 from __future__ import annotations
 
-import os
-from concurrent.futures import ThreadPoolExecutor
-from functools import lru_cache
 from typing import NamedTuple
 
 import numpy as np
 
 from ledger.core._jit import kernels
+from ledger.core._parallel import split, thread_count
 from ledger.core.envelope import prepare_sweep
 from ledger.core.massprops import mass_properties
-from ledger.errors import InputError, MassPropertiesError
+from ledger.errors import MassPropertiesError
 
 __all__ = ["SweepResult", "sweep_cases"]
 
@@ -54,32 +52,6 @@ class SweepResult(NamedTuple):
     cg: np.ndarray
     inside: np.ndarray
     margin: np.ndarray
-
-
-@lru_cache(maxsize=1)
-def _pool() -> ThreadPoolExecutor:
-    # One pool for the process: starting threads on every sweep costs a few percent of a
-    # million-case sweep. The calling thread runs one share itself.
-    return ThreadPoolExecutor(max_workers=max(1, _cores() - 1), thread_name_prefix="sweep")
-
-
-def _cores() -> int:
-    try:
-        return len(os.sched_getaffinity(0))
-    except AttributeError:              # not on every platform
-        return os.cpu_count() or 1
-
-
-def _threads(threads, n: int) -> int:
-    if threads is None:
-        return max(1, min(_cores(), -(-n // _CHUNK)))
-    try:
-        value = int(threads)
-    except (TypeError, ValueError):
-        value = 0
-    if value != threads or value < 1:
-        raise InputError("threads", threads, "a whole number of threads, 1 or more")
-    return max(1, min(value, _cores(), -(-n // _CHUNK)))
 
 
 def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult:
@@ -133,7 +105,7 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
         mass_properties(masses, arms)     # raises, naming the field
         raise
     env = prepare_sweep(polygon, tol)
-    _threads(threads, 1)
+    thread_count(threads, 1, 1)             # refuse a bad value before any work
     if m.ndim == 0 or a.ndim != 1 or m.shape[-1] == 0 or a.shape[0] != m.shape[-1]:
         mp = mass_properties(m, a)
         r = env.assess(mp.cg.x, mp.mass)
@@ -186,16 +158,7 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
         return ok, near
 
     run = run_numpy if jit is None else run_jit
-    k = _threads(threads, n) if n >= _THREAD_MIN else 1
-    if k == 1:
-        parts = [run(0, n)]
-    else:
-        chunks = -(-n // _CHUNK)
-        per = -(-chunks // k) * _CHUNK                      # whole chunks per thread
-        bounds = [(i * per, min(n, (i + 1) * per)) for i in range(k) if i * per < n]
-        pool = _pool()
-        futures = [pool.submit(run, lo, hi) for lo, hi in bounds[1:]]
-        parts = [run(*bounds[0])] + [f.result() for f in futures]
+    parts = split(run, n, thread_count(threads, n, _CHUNK) if n >= _THREAD_MIN else 1, _CHUNK)
     if not all(ok for ok, _ in parts):
         mass_properties(m, a)             # raises, naming the case and the item
         if not (np.all(np.isfinite(cg))):
