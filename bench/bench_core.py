@@ -6,16 +6,18 @@ Prints one line per benchmark::
     bench NAME: ratio R (target T)
 
 - ``envelope_covers_1M``: inclusive containment of 1,000,000 CG points in an 8-vertex non-convex
-  envelope, against prepared ``shapely.intersects_xy`` (also inclusive). Verdicts must be
-  identical, including points placed exactly on edges and vertices. Ratio = our throughput ÷
-  shapely's (best of several runs each).
+  envelope with ``ledger.core.envelope.covers`` (the prepared table and compiled kernel when
+  numba is installed, on the cores this process may use; else the numpy crossing scan),
+  against prepared ``shapely.intersects_xy`` (also inclusive). Verdicts must be identical,
+  including points placed exactly on edges and vertices. Ratio = our throughput ÷ shapely's
+  (best of several runs each). A comment line before it gives the crossing scan's ratio.
 - ``loading_sweep_1M``: 1,000,000 loading cases of 12 items each: mass, CG, envelope verdict and
   signed CG margin per case (``ledger.core.sweep.sweep_cases`` with its defaults: the compiled
   kernel when numba is installed, else numpy chunks; the cores this process may use; envelope
   prepared by ``prepare_sweep``), against a plain Python loop running the same algorithm case by
   case on one core (timed on 20,000 cases and scaled per case). Results must agree with the
-  loop on those cases, and with ``mass_properties`` + ``assess`` on all. A comment line before
-  it gives the same ratio on one thread, and which kernel ran.
+  loop on those cases, and with ``mass_properties`` + the exact scan behind ``assess`` on all.
+  A comment line before it gives the same ratio on one thread, and which kernel ran.
 
 The envelope and loadings are invented for the benchmark (not a real type; not for operation).
 """
@@ -29,7 +31,7 @@ import numpy as np
 import shapely
 
 from ledger.core._jit import kernels
-from ledger.core.envelope import assess, covers, default_tolerance
+from ledger.core.envelope import _prepare, _scan, covers, default_tolerance
 from ledger.core.massprops import mass_properties
 from ledger.core.sweep import sweep_cases
 
@@ -79,7 +81,8 @@ def _boundary_points(P: np.ndarray, per_edge: int) -> np.ndarray:
     return np.concatenate(pts)
 
 
-def bench_envelope_covers(n: int = 1_000_000, repeat: int = 9) -> float:
+def bench_envelope_covers(n: int = 1_000_000, repeat: int = 9) -> tuple[float, float]:
+    """Ratios of ``covers`` and of the numpy crossing scan alone, each against shapely."""
     rng = np.random.default_rng(20240601)
     lo, hi = ENVELOPE.min(axis=0), ENVELOPE.max(axis=0)
     pad = 0.1 * (hi - lo)
@@ -96,9 +99,13 @@ def bench_envelope_covers(n: int = 1_000_000, repeat: int = 9) -> float:
     assert np.array_equal(ours, ref), f"{int((ours != ref).sum())} verdicts differ from shapely"
     assert ours[take].all(), "points on edges and vertices must be in limits"
 
+    prep = _prepare(ENVELOPE, None)
+    assert np.array_equal(_scan(prep, x, y, want_margin=False)[0], ref)
     t_ours, t_ref = _best_pair(lambda: covers(ENVELOPE, x, y),
                                lambda: shapely.intersects_xy(poly, x, y), repeat)
-    return t_ref / t_ours
+    t_scan, t_ref2 = _best_pair(lambda: _scan(prep, x, y, want_margin=False),
+                                lambda: shapely.intersects_xy(poly, x, y), repeat)
+    return t_ref / t_ours, t_ref2 / t_scan
 
 
 def _python_case_factory(P: np.ndarray, tol: float):
@@ -174,15 +181,16 @@ def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int 
         assert all(np.array_equal(a, b) for a, b in zip(vectorised(threads),
                                                         (mass, cg, inside, margin)))
     # The sweep must give the results of the unprepared path on every case: mass_properties,
-    # then assess (itself checked against shapely in envelope_covers_1M and the tests).
+    # then the exact scan behind assess (checked against shapely in the tests; assess itself
+    # takes the prepared table for this many points).
     mp = mass_properties(masses, arms)
-    ref = assess(ENVELOPE, mp.cg.x, mp.mass)
+    ref_inside, ref_margin = _scan(_prepare(ENVELOPE, None), mp.cg.x, mp.mass, want_margin=True)
     assert np.allclose(mass, mp.mass, rtol=1e-15) and np.allclose(cg, mp.cg.x, rtol=1e-15)
-    assert np.array_equal(inside, ref.inside), "verdicts differ from assess"
-    fin = np.isfinite(ref.margin)
+    assert np.array_equal(inside, ref_inside), "verdicts differ from the exact scan"
+    fin = np.isfinite(ref_margin)
     assert np.array_equal(fin, np.isfinite(margin))
-    assert np.array_equal(ref.margin[~fin], margin[~fin])
-    assert np.allclose(ref.margin[fin], margin[fin], rtol=0, atol=1e-9)
+    assert np.array_equal(ref_margin[~fin], margin[~fin])
+    assert np.allclose(ref_margin[fin], margin[fin], rtol=0, atol=1e-9)
 
     case = _python_case_factory(ENVELOPE, default_tolerance(ENVELOPE))
     rows = masses[:n_python].tolist()
@@ -213,9 +221,12 @@ def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int 
 
 
 def main() -> None:
-    print(f"bench envelope_covers_1M: ratio {bench_envelope_covers():.2f} (target 5)", flush=True)
-    cores, one = bench_loading_sweep()
     kernel = "compiled (numba)" if kernels() else "numpy (no numba, or WBLEDGER_JIT=0)"
+    ours, scan = bench_envelope_covers()
+    print(f"# envelope_covers_1M kernel: {kernel}; the numpy crossing scan alone: ratio "
+          f"{scan:.2f}", flush=True)
+    print(f"bench envelope_covers_1M: ratio {ours:.2f} (target 5)", flush=True)
+    cores, one = bench_loading_sweep()
     print(f"# loading_sweep_1M kernel: {kernel}; one thread: ratio {one:.1f}", flush=True)
     print(f"bench loading_sweep_1M: ratio {cores:.1f} (target 200)", flush=True)
 

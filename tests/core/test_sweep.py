@@ -15,7 +15,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ledger.core._jit import kernels
-from ledger.core.envelope import assess, prepare_sweep
+from ledger.core import envelope
+from ledger.core.envelope import assess, covers, prepare_sweep
 from ledger.core.massprops import mass_properties
 from ledger.core.sweep import sweep_cases
 from ledger.errors import EnvelopeError, InputError, MassPropertiesError
@@ -80,6 +81,13 @@ def _sample(P: np.ndarray, rng, n: int = 20_000):
             np.concatenate([y, b[:, 1], ly, gy.ravel()]), len(b))
 
 
+def _exact(P, x, y, tol=None):
+    """The unprepared scan's verdicts and margins, whatever the number of points (from
+    ``envelope._TABLE_MIN`` points on, ``assess`` itself goes through the prepared table)."""
+    return envelope._scan(envelope._prepare(P, tol), np.asarray(x, dtype=float),
+                          np.asarray(y, dtype=float), want_margin=True)
+
+
 def _same_margins(a, b):
     a, b = np.asarray(a), np.asarray(b)
     fa, fb = np.isfinite(a), np.isfinite(b)
@@ -102,6 +110,33 @@ def test_prepared_verdicts_match_shapely_and_margins_match_assess(name):
     exact = assess(P, x, y)
     np.testing.assert_array_equal(r.inside, exact.inside)
     _same_margins(r.margin, exact.margin)
+
+
+@pytest.mark.filterwarnings("ignore::RuntimeWarning")
+@pytest.mark.parametrize("name", sorted(SHAPES))
+def test_covers_and_assess_of_many_points_match_the_scan_and_shapely(name):
+    # From envelope._TABLE_MIN points on, covers and assess use the prepared table (with the
+    # compiled kernel, on the cores this process may use): the same verdicts and margins as
+    # the scan, boundary and non-finite points included.
+    P = SHAPES[name]
+    x, y, nb = _sample(P, np.random.default_rng(23), n=envelope._TABLE_MIN)
+    odd_x = [np.nan, 1.0, np.inf, -np.inf, 1.0, 1.0, 1e300]
+    odd_y = [1.0, np.nan, 1.0, 1.0, np.inf, -np.inf, 1.0]
+    x, y = np.concatenate([x, odd_x]), np.concatenate([y, odd_y])
+    inside = covers(P, x, y)
+    r = assess(P, x, y)
+    exact_inside, exact_margin = _exact(P, x, y)
+    np.testing.assert_array_equal(inside, exact_inside)
+    np.testing.assert_array_equal(r.inside, exact_inside)
+    np.testing.assert_array_equal(r.margin[-7:], exact_margin[-7:])    # NaN and ±inf alike
+    _same_margins(r.margin, exact_margin)
+    # shapely.intersects_xy is inclusive (boundary points intersect); it covers no
+    # non-finite point either.
+    np.testing.assert_array_equal(inside, shapely.intersects_xy(shapely.Polygon(P), x, y))
+    n0 = envelope._TABLE_MIN
+    assert inside[n0:n0 + nb].all() and not inside[-7:].any()
+    # The other way in: one (n, 2) array of points.
+    np.testing.assert_array_equal(covers(P, np.column_stack([x, y])), exact_inside)
 
 
 @pytest.mark.parametrize("tol", [0.0, 1e-6, 0.05])
@@ -214,15 +249,15 @@ def test_sweep_matches_mass_properties_and_assess(threads):
     m = _cases(rng, 70_001)                  # several chunks and a ragged last one
     r = sweep_cases(m, ARMS_MM, NOTCHED_MM, threads=threads)
     mp = mass_properties(m, ARMS_MM)
-    exact = assess(NOTCHED_MM, mp.cg.x, mp.mass)
+    exact_inside, exact_margin = _exact(NOTCHED_MM, mp.cg.x, mp.mass)
     # Sums of non-negative terms in another order: within (n - 1)·u of each other, u = eps/2
     # (Higham, Accuracy and Stability of Numerical Algorithms, §4.2; from memory); the CG adds
     # one division's rounding.
     bound = len(ARMS_MM) * np.finfo(float).eps
     np.testing.assert_allclose(r.mass, mp.mass, rtol=bound)
     np.testing.assert_allclose(r.cg, mp.cg.x, rtol=2 * bound)
-    np.testing.assert_array_equal(r.inside, exact.inside)
-    _same_margins(r.margin, exact.margin)
+    np.testing.assert_array_equal(r.inside, exact_inside)
+    _same_margins(r.margin, exact_margin)
     # And shapely as the reference for the verdicts.
     np.testing.assert_array_equal(
         r.inside, shapely.intersects_xy(shapely.Polygon(NOTCHED_MM), r.cg, r.mass))
