@@ -41,3 +41,15 @@ def test_readme_starts_with_the_job_and_the_two_commands():
     assert "centre of gravity" in first and "loading sheet" in first
     quick = README.split("## Quick start")[1].split("\n## ")[0]
     assert "make demo" in quick and "make test" in quick
+
+
+def test_readme_python_examples_run():
+    # The README's pycon blocks are doctests of the calculation core.
+    import doctest
+
+    blocks = re.findall(r"```pycon\n(.*?)```", README, flags=re.S)
+    assert blocks, "the README shows no Python example"
+    parser, runner = doctest.DocTestParser(), doctest.DocTestRunner(verbose=False)
+    for n, block in enumerate(blocks):
+        runner.run(parser.get_doctest(block, {}, f"README block {n + 1}", "README.md", 0))
+    assert runner.failures == 0, f"{runner.failures} README example(s) failed (see above)"
