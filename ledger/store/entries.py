@@ -45,8 +45,9 @@ from typing import Any, NamedTuple
 from sqlalchemy import bindparam, event, func, insert, select, true
 from sqlalchemy.orm import Session
 
-from ledger.errors import ConflictError, InputError, NotFoundError
-from ledger.store.chain import ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash
+from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
+from ledger.store.chain import (ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash,
+                                verify_vehicle)
 from ledger.typedata.model import SHAPE_DIMENSIONS
 from ledger.store.models import (
     ENTRY_KINDS,
@@ -149,8 +150,6 @@ class Entry:
         try:
             return json.loads(self.detail_json)
         except (TypeError, ValueError):
-            from ledger.errors import ChainError
-
             raise ChainError(f"entry {self.seq} of {self.registration}: its stored detail is "
                              "not valid JSON; it was changed outside wbledger. See "
                              f"`wbledger verify {self.registration}`") from None
@@ -1119,7 +1118,9 @@ def current_empty(session: Session, registration: str, *,
     """The empty vehicle now (or on ``as_of``): mass, moments, entry id and seq.
 
     This is what a loading sheet or an inertia report starts from; apply a configuration's
-    items (:func:`ledger.store.configs.configuration_items`) on top.
+    items (:func:`ledger.store.configs.configuration_items`) on top. The vehicle's whole hash
+    chain is verified first: figures for operation are never built on a ledger that was
+    changed behind wbledger's back.
 
     Raises
     ------
@@ -1127,8 +1128,15 @@ def current_empty(session: Session, registration: str, *,
         Unknown vehicle.
     ConflictError
         No weighing recorded (on or before ``as_of``).
+    ChainError
+        The vehicle's chain does not verify (as ``wbledger verify`` reports it).
     """
     vehicle = _vehicle(session, registration)
+    report = verify_vehicle(session, vehicle.registration)
+    if not report.ok:
+        raise ChainError(f"the ledger of {vehicle.registration} does not verify, so no sheet or "
+                         f"report is built on it: {report.problem}. See `wbledger verify "
+                         f"{vehicle.registration}`")
     query = _as_of_filter(
         select(_E.id, _E.seq, _E.entry_date, _E.empty_mass_kg, _E.empty_mx_kgm,
                _E.empty_my_kgm, _E.empty_mz_kgm, _E.z_known, _E.baseline_seq)

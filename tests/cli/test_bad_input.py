@@ -315,18 +315,23 @@ def test_bad_input_is_one_line_and_writes_nothing(cli, files, args, expected, co
     assert not (files / "new.sqlite3").exists()
 
 
-def test_a_row_changed_by_hand_is_reported_in_one_line(cli):
-    """verify names the entry (exit 1); history refuses it in one line instead of failing."""
+def _edit_entry(cli, seq: int, assignment: str) -> None:
+    """Change entry ``seq`` of KVA-101 by direct SQL, behind the ledger's back."""
     from ledger.store.db import make_engine
 
     eng = make_engine(cli.db_url)
     try:
         with eng.begin() as conn:
-            conn.execute(text("UPDATE ledger_entries SET detail_json = '{bad' WHERE seq = 1 AND "
+            conn.execute(text(f"UPDATE ledger_entries SET {assignment} WHERE seq = {seq} AND "
                               "vehicle_id = (SELECT id FROM vehicles WHERE registration = "
                               "'KVA-101')"))
     finally:
         eng.dispose()
+
+
+def test_a_row_changed_by_hand_is_reported_in_one_line(cli):
+    """verify names the entry (exit 1); history refuses it in one line instead of failing."""
+    _edit_entry(cli, 1, "detail_json = '{bad'")
     before = dump(cli.db_url)
     res = cli("verify", "KVA-101")
     assert (res.exit_code, res.stderr) == (
@@ -337,6 +342,25 @@ def test_a_row_changed_by_hand_is_reported_in_one_line(cli):
         1, "", "Error: entry 1 of KVA-101: its stored detail is not valid JSON; it was changed "
                "outside wbledger. See `wbledger verify KVA-101`\n")
     assert dump(cli.db_url) == before
+
+
+def test_no_sheet_check_or_inertia_report_on_a_ledger_that_does_not_verify(cli):
+    """The head entry's empty mass lowered by direct SQL (as if to pass a check): every command
+    that builds figures for operation on the empty vehicle refuses, names the entry, exits 1
+    and writes nothing (common practice for an audited record)."""
+    _edit_entry(cli, 2, "empty_mass_kg = empty_mass_kg - 20")
+    before = dump(cli.db_url)
+    expected = ("Error: the ledger of KVA-101 does not verify, so no sheet or report is built on "
+                "it: entry 2: its content does not match its hash (a field was changed after "
+                "it was written). See `wbledger verify KVA-101`\n")
+    for args in (("sheet", "prepare", str(PLAN), "--save"), ("check", str(PLAN)),
+                 ("check", "KVA-101", "--person", "pilot=80 kg"), ("inertia", "KVA-101")):
+        res = cli(*args)
+        assert (res.exit_code, res.stdout, res.stderr) == (1, "", expected), args
+    assert dump(cli.db_url) == before
+    # The other vehicle's chain is intact: its figures are still given.
+    res = cli("inertia", "KVA-T75", "--assume-z", "0.9 m")
+    assert res.exit_code == 0, res.stderr
 
 
 def _edit_sqlite_date(cli, column: str, value: str) -> None:
