@@ -59,6 +59,7 @@ __all__ = [
     "describe_units",
     "dimension_of",
     "display_decimals",
+    "nonzero_excess",
     "format_quantity",
     "from_unit",
     "is_bare_number",
@@ -698,6 +699,21 @@ _MASS_DECIMALS = {"kg": 1, "lb": 1, "g": 0, "t": 3, "slug": 2}
 _LENGTH_DECIMALS = {"m": 4, "cm": 2, "mm": 1, "in": 2, "ft": 4}
 _MASS_SIG_FIGS = 4
 _MAX_DECIMALS = 6
+
+
+def nonzero_excess(number: str, amount: float) -> str:
+    """``number``, the display of a positive excess ``amount``, or where it shows as zero,
+    "less than" its last digit: a message never says a limit is exceeded by 0.00.
+
+    Examples
+    --------
+    >>> nonzero_excess("0.00", 0.001), nonzero_excess("0", 0.2), nonzero_excess("1.25", 1.25)
+    ('less than 0.01', 'less than 1', '1.25')
+    """
+    if not (amount > 0 and float(number.replace(",", "")) == 0.0):
+        return number
+    decimals = len(number.partition(".")[2])
+    return "less than " + (f"0.{'0' * (decimals - 1)}1" if decimals else "1")
 
 
 def display_decimals(unit: str, scale_si: float | None = None) -> int:

@@ -15,7 +15,7 @@ import math
 import numpy as np
 
 from ledger.errors import InputError, PlanError, TypeDataError
-from ledger.loadsheet.text import mass_text, phase_title
+from ledger.loadsheet.text import excess_text, mass_text, phase_title
 from ledger.report.caution import GROUND_CAUTION
 
 __all__ = ["supports", "axle_checks"]
@@ -127,7 +127,7 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
                     "actual": float(loads.axle[i]), "excess": -margin, "unit": "kg",
                     "message": f"{phase_title(name)} load on axle '{a.name}' "
                                f"{mass_text(loads.axle[i], du)} is over its rating "
-                               f"{mass_text(a.rating_kg, du)} by {mass_text(-margin, du)}"})
+                               f"{mass_text(a.rating_kg, du)} by {excess_text(mass_text, -margin, du)}"})
         for g in vtype.axle_groups:
             if g.rating_kg is None:
                 continue
@@ -141,7 +141,7 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
                     "message": f"{phase_title(name)} load on axle group '{g.name}' "
                                f"{mass_text(load, du)} is over its rating "
                                f"{mass_text(g.rating_kg, du)} by "
-                               f"{mass_text(load - g.rating_kg, du)}"})
+                               f"{excess_text(mass_text, load - g.rating_kg, du)}"})
         phase["axles"] = rows
         phase["in_limits"] = phase["in_limits"] and all(r["in_limits"] for r in rows) and \
             not any(v.get("phase") == name for v in violations)

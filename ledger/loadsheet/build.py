@@ -40,7 +40,8 @@ from typing import Any, Iterable, Mapping
 import numpy as np
 
 from ledger.errors import PlanError
-from ledger.loadsheet.text import length_text, mass_text, phase_title, volume_text
+from ledger.loadsheet.text import (excess_text, length_text, mass_text, phase_title,
+                                   volume_text)
 from ledger.report.caution import CAUTION, GROUND_CAUTION
 
 __all__ = [
@@ -362,7 +363,7 @@ def _envelope_violation(vtype, env, phase, mass, cg_v, res, r) -> dict:
                 "unit": "m",
                 "message": f"{title} {what} {length_text(cg_v, du)} is {side} of the "
                            f"{env.name} envelope's limit {length_text(limit, du)} at "
-                           f"{mass_text(mass, du)} by {length_text(-to_fwd, du)}"}
+                           f"{mass_text(mass, du)} by {excess_text(length_text, -to_fwd, du)}"}
     if to_aft is not None and to_aft < 0:
         side = "right" if lateral else "aft"
         limit = res["aft_limit_m"]
@@ -370,7 +371,7 @@ def _envelope_violation(vtype, env, phase, mass, cg_v, res, r) -> dict:
                 "unit": "m",
                 "message": f"{title} {what} {length_text(cg_v, du)} is {side} of the "
                            f"{env.name} envelope's limit {length_text(limit, du)} at "
-                           f"{mass_text(mass, du)} by {length_text(-to_aft, du)}"}
+                           f"{mass_text(mass, du)} by {excess_text(length_text, -to_aft, du)}"}
     to_max, to_min = _f(r.to_max_mass), _f(r.to_min_mass)
     if to_max is not None and to_max < 0:
         top = mass + to_max
@@ -378,14 +379,14 @@ def _envelope_violation(vtype, env, phase, mass, cg_v, res, r) -> dict:
                 "unit": "kg",
                 "message": f"{title} mass {mass_text(mass, du)} is above the {env.name} "
                            f"envelope ({mass_text(top, du)} at {what} "
-                           f"{length_text(cg_v, du)}) by {mass_text(-to_max, du)}"}
+                           f"{length_text(cg_v, du)}) by {excess_text(mass_text, -to_max, du)}"}
     if to_min is not None and to_min < 0:
         bottom = mass + to_min
         return {**base, "side": "below", "limit": bottom, "actual": mass, "excess": -to_min,
                 "unit": "kg",
                 "message": f"{title} mass {mass_text(mass, du)} is below the {env.name} "
                            f"envelope ({mass_text(bottom, du)} at {what} "
-                           f"{length_text(cg_v, du)}) by {mass_text(-to_min, du)}"}
+                           f"{length_text(cg_v, du)}) by {excess_text(mass_text, -to_min, du)}"}
     pts = np.asarray(env.points, dtype=float)
     top, bottom = float(pts[:, 1].max()), float(pts[:, 1].min())
     if mass > top:
@@ -393,13 +394,13 @@ def _envelope_violation(vtype, env, phase, mass, cg_v, res, r) -> dict:
                 "unit": "kg",
                 "message": f"{title} mass {mass_text(mass, du)} is above the top of the "
                            f"{env.name} envelope ({mass_text(top, du)}) by "
-                           f"{mass_text(mass - top, du)}"}
+                           f"{excess_text(mass_text, mass - top, du)}"}
     if mass < bottom:
         return {**base, "side": "below", "limit": bottom, "actual": mass,
                 "excess": bottom - mass, "unit": "kg",
                 "message": f"{title} mass {mass_text(mass, du)} is below the bottom of the "
                            f"{env.name} envelope ({mass_text(bottom, du)}) by "
-                           f"{mass_text(bottom - mass, du)}"}
+                           f"{excess_text(mass_text, bottom - mass, du)}"}
     return {**base, "side": "outside", "limit": None, "actual": cg_v, "excess": None,
             "unit": "m",
             "message": f"{title} {what} {length_text(cg_v, du)} at {mass_text(mass, du)} is "
@@ -420,7 +421,7 @@ def _mass_checks(vtype, phase: str, mass: float, violations: list) -> tuple:
             "code": code, "phase": phase, "subject": subject, "limit": limit, "actual": mass,
             "excess": mass - limit, "unit": "kg",
             "message": f"{title} mass {mass_text(mass, du)} is over the {subject} "
-                       f"{mass_text(limit, du)} by {mass_text(mass - limit, du)}"})
+                       f"{mass_text(limit, du)} by {excess_text(mass_text, mass - limit, du)}"})
     if phase in ("takeoff", "landing") and lim.min_flight_kg is not None \
             and mass < lim.min_flight_kg * (1 - _REL):
         violations.append({
@@ -429,7 +430,7 @@ def _mass_checks(vtype, phase: str, mass: float, violations: list) -> tuple:
             "unit": "kg",
             "message": f"{title} mass {mass_text(mass, du)} is under the minimum flight mass "
                        f"{mass_text(lim.min_flight_kg, du)} by "
-                       f"{mass_text(lim.min_flight_kg - mass, du)}"})
+                       f"{excess_text(mass_text, lim.min_flight_kg - mass, du)}"})
     return limit, (None if limit is None else limit - mass)
 
 
@@ -451,7 +452,7 @@ def _station_checks(vtype, plan, violations: list) -> list[dict]:
                 "excess": loaded - st.max_mass_kg, "unit": "kg",
                 "message": f"Station '{st.name}' holds {mass_text(loaded, du)}, over its limit "
                            f"{mass_text(st.max_mass_kg, du)} by "
-                           f"{mass_text(loaded - st.max_mass_kg, du)}"})
+                           f"{excess_text(mass_text, loaded - st.max_mass_kg, du)}"})
         ext = st.extent
         if ext is not None and ext.floor_area_m2 and ext.floor_load_limit_kg_m2:
             load = loaded / ext.floor_area_m2
@@ -493,7 +494,7 @@ def _tank_checks(vtype, plan, violations: list) -> None:
                 "subject": f"tank '{t.name}'", "limit": room, "actual": loaded,
                 "excess": loaded - room, "unit": "m3" if t.basis == "volume" else "kg",
                 "message": f"Tank '{t.name}' holds {show(loaded, du)} of usable fuel, over its "
-                           f"usable capacity {show(room, du)} by {show(loaded - room, du)}"})
+                           f"usable capacity {show(room, du)} by {excess_text(show, loaded - room, du)}"})
 
 
 # --- the document -------------------------------------------------------------------------------

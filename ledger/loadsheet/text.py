@@ -2,9 +2,10 @@
 
 from __future__ import annotations
 
-from ledger.units import DisplayUnits, display_decimals, to_unit
+from ledger.units import DisplayUnits, display_decimals, nonzero_excess, to_unit
 
-__all__ = ["mass_text", "length_text", "volume_text", "phase_title", "PHASE_TITLES"]
+__all__ = ["mass_text", "length_text", "volume_text", "excess_text",
+           "phase_title", "PHASE_TITLES"]
 
 PHASE_TITLES = {"zero_fuel": "Zero-fuel", "ramp": "Ramp", "takeoff": "Take-off",
                 "landing": "Landing", "departure": "Departure", "arrival": "Arrival"}
@@ -66,3 +67,20 @@ def volume_text(m3: float, du: DisplayUnits) -> str:
     """
     v = to_unit(m3, du.volume)
     return f"{_fixed(v, _VOLUME_DECIMALS.get(du.volume, 1))} {du.volume}"
+
+
+def excess_text(show, amount: float, du: DisplayUnits) -> str:
+    """By how much a limit is exceeded, as ``show`` (:func:`mass_text`, :func:`length_text` or
+    :func:`volume_text`) writes it, but never as zero (:func:`ledger.units.nonzero_excess`).
+
+    Examples
+    --------
+    >>> du = DisplayUnits("lb", "in", "USgal", 1000)
+    >>> excess_text(length_text, 0.0127, du), excess_text(length_text, 1e-7, du)
+    ('0.50 in', 'less than 0.01 in')
+    >>> excess_text(mass_text, 1e-6, du)
+    'less than 0.01 lb'
+    """
+    number, _, unit = show(amount, du).rpartition(" ")
+    return f"{nonzero_excess(number, amount)} {unit}"
+

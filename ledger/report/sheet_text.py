@@ -37,7 +37,7 @@ from rich.text import Text
 
 from ledger.report.caution import CAUTION, GROUND_CAUTION
 from ledger.report.textchart import PATH, envelope_chart
-from ledger.units import DisplayUnits, display_decimals, to_unit
+from ledger.units import DisplayUnits, display_decimals, nonzero_excess, to_unit
 
 __all__ = ["ChartData", "SheetView", "TableData", "render_sheet", "sheet_text"]
 
@@ -626,7 +626,7 @@ class SheetView:
                     margin = float(limit) - float(load)
                 within = ok if ok is not None else margin >= 0
                 text += ", within" if within else \
-                    f", over by {self.mass(-margin)} {self.mass_unit}"
+                    f", over by {nonzero_excess(self.mass(-margin), -margin)} {self.mass_unit}"
             elif r.get("message") or r.get("text"):
                 text = r.get("message") or r.get("text")
             out.append(text)
