@@ -9,8 +9,9 @@ The layout is our own. From top to bottom:
 
 1. a heading panel (vehicle, type and revision, empty-weight entry used, configuration,
    preparer and time, standard-mass set or "actual", display units) with a one-line verdict;
-2. "Load by station": the empty weight, every item with mass, arm and moment, and the
-   zero-fuel total;
+2. "Load by station": the empty weight, the configuration's items (a removed one with a
+   negative mass), every item with mass, arm and moment, and the zero-fuel total they add up
+   to;
 3. "Fuel": per tank, and the burn sequence;
 4. "Phases": mass against its limit, CG, %MAC, moment index; then "Envelope margins":
    per phase and envelope, the distance to the forward and aft (or left and right) limits;
@@ -299,7 +300,9 @@ class SheetView:
     def items_table(self) -> TableData:
         d = self.doc
         items = d.get("items") or []
-        lateral = any(_num(i.get("y_m")) not in (None, 0.0) for i in items)
+        conf = d.get("configuration") or {}
+        conf_items = conf.get("items") or []
+        lateral = any(_num(i.get("y_m")) not in (None, 0.0) for i in items + conf_items)
         lu, mu = self.length_unit, self.mass_unit
         headers = ["Station", "Load", f"Mass\n{mu}", f"Arm\n{lu}"]
         if lateral:
@@ -317,6 +320,17 @@ class SheetView:
         row += [self.index(ew_mass * ew_x if ew_mass is not None and ew_x is not None
                            else None), ""]
         rows.append(row)
+        # The configuration's items, so that the rows add up to the zero-fuel total.
+        for it in conf_items:
+            signed = _num(it.get("signed_mass_kg"))
+            removed = it.get("action") == "remove"
+            row = [str(it.get("name") or "?"), "removed (config)" if removed else "config",
+                   self.mass(signed, signed=removed), self.length(it.get("x_m"))]
+            if lateral:
+                row.append(self.length(it.get("y_m"), signed=True))
+            x = _num(it.get("x_m"))
+            row += [self.index(signed * x if signed is not None and x is not None else None), ""]
+            rows.append(row)
         standard = False
         for it in items:
             src = it.get("mass_source") or "actual"

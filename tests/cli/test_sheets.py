@@ -141,3 +141,22 @@ def test_amend_within_and_beyond_the_tolerance(ready):
                         "of type TS-1 (20.0 lb and 0 persons): it changes 35.0 lb and 0 "
                         "persons; prepare a new sheet with `wbledger sheet PLAN --save`\n")
     assert _saved_count(cli.db_url) == 2
+
+
+def test_configuration_items_are_rows_of_the_load_table_and_add_up(ready):
+    # A vehicle configuration (invented): a ferry tank in, a rear seat out. The rows of the
+    # load table must add up to the zero-fuel total (common practice for a loading sheet).
+    cli, d = ready
+    r = cli("config", "define", "ferry", "--vehicle", "TS-101", "--install",
+            "ferry tank=20 lb@60 in", "--remove", "rear seat=15 lb@73 in")
+    assert r.exit_code == 0, r.stderr
+    r = cli("sheet", "prepare", "TS-101", "--configuration", "ferry", "--person", "pilot=180")
+    assert r.exit_code == 0, r.stderr
+    lines = r.stdout.split(" LOAD BY STATION ")[1].split(" STATION LIMITS ")[0].splitlines()
+    rows = {line.split("  ")[0]: line.split() for line in lines if line[:1].isalpha()}
+    assert rows["ferry tank"][2:4] == ["config", "20.0"]
+    assert rows["rear seat"][2:6] == ["removed", "(config)", "-15.0", "73.00"]
+    masses = [float(rows[k][n]) for k, n in (("empty weight", 4), ("ferry tank", 3),
+                                             ("rear seat", 4), ("pilot", 1))]
+    total = float(rows["zero-fuel"][2])
+    assert abs(sum(masses) - total) < 0.05 + 1e-9, (masses, total)
