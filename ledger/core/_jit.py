@@ -6,10 +6,10 @@ make about twenty passes over each chunk of cases; these kernels read each case'
 each block of a few thousand cases while its figures are in cache: totals and CG; cell, margin
 and verdict; the points for the exact scan. The compiler vectorises such simple loops across
 cases, which it does not for one loop doing all of it per case (1.4 times the time on one
-thread here). They give the numpy kernels' verdicts, their totals and margins to rounding (the
-sums may run in another order), and leave the same points to the exact scan: a point whose
-computed margin is within ``thr`` of zero, in a mixed cell of the table (NaN coefficients), or
-with a non-finite mass or CG.
+thread here). They give the numpy kernels' verdicts and margins (bit for bit for points, to
+rounding in a sweep, whose sums may run in another order), and leave the same points to the
+exact scan: a point whose computed margin is within ``thr`` of zero, in a mixed cell of the
+table (NaN coefficients), or with a non-finite mass or CG.
 
 numba is optional (``pip install 'wbledger[fast]'``). Without it, or with the environment
 variable ``WBLEDGER_JIT=0``, :func:`kernels` returns None and callers use numpy.
@@ -49,8 +49,15 @@ def _build(numba):
     # numpy (error_model) rather than raising: the screens below rely on both.
     jit = numba.njit(cache=True, nogil=True, error_model="numpy",
                      fastmath={"reassoc", "contract"})
+    # Points alone (assess_range) are computed in strict IEEE order, with no fused
+    # multiply-add: the operations of the numpy kernel and the exact scan, so that covers and
+    # assess give the same margins to the last bit whichever path a point takes (a result does
+    # not depend on how many points were given). numba applies a kernel's fastmath flags to
+    # the functions it calls as well, so the sweep's margins (sweep_range) agree with the
+    # scan's to rounding only, as its totals agree with mass_properties'.
+    strict = numba.njit(cache=True, nogil=True, error_model="numpy")
 
-    @jit
+    @strict
     def _verdicts(X, W, origin, inv, tabs, K, thr, points_finite, inside, margin, near, nn,
                   cell, offset):
         """Verdicts and margins of the points of one block (``X``, ``W``, ``inside`` and
@@ -128,7 +135,7 @@ def _build(numba):
         # A NaN mass, a zero total, an infinite mass or moment: a non-finite sum of the CGs.
         return negative, abs(total) < np.inf, nn
 
-    @jit
+    @strict
     def assess_range(X, Y, origin, inv, tabs, K, thr, inside, margin, near, s, e):
         """Points ``s:e``: verdict and margin; returns the number written to ``near``. With
         an empty ``margin`` only the verdicts are written (each block's margins go to

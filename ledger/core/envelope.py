@@ -524,8 +524,9 @@ def assess(polygon, x, y, *, tol=None) -> Assessment:
 
 # From this many points on, covers and assess go through the envelope prepared for sweeps when
 # the compiled kernel is there (its verdicts and margins are those of the scan). Its table is
-# built once per envelope and cached; the build (0.3 ms here) costs about what this many points
-# save on a first call, and later calls take a fifth to two thirds of the time (measured here).
+# built once per envelope and cached; the build (0.3 ms here for an envelope of a few tens of
+# vertices, more for thousands) costs about what this many points save on a first call, and
+# later calls take a fifth to two thirds of the time (measured here).
 _TABLE_MIN = 65536
 
 
