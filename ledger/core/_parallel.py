@@ -30,6 +30,10 @@ def _pool() -> ThreadPoolExecutor:
     return ThreadPoolExecutor(max_workers=max(1, cores() - 1), thread_name_prefix="ledger")
 
 
+if hasattr(os, "register_at_fork"):     # a forked child has none of the pool's threads
+    os.register_at_fork(after_in_child=_pool.cache_clear)
+
+
 def thread_count(threads, n: int, grain: int) -> int:
     """Threads for ``n`` items: ``threads`` (None: the cores), at most the cores and one per
     ``grain`` items; raises InputError unless ``threads`` is None or a whole number, 1 or more."""
@@ -46,7 +50,7 @@ def thread_count(threads, n: int, grain: int) -> int:
 
 def split(run, n: int, k: int, grain: int) -> list:
     """``[run(lo, hi), ...]`` over ``0:n`` in ``k`` shares of whole grains, in order."""
-    if k <= 1:
+    if k <= 1 or n <= grain:
         return [run(0, n)]
     per = -(-(-(-n // grain)) // k) * grain             # whole grains per share
     bounds = [(lo, min(n, lo + per)) for lo in range(0, n, per)]
