@@ -315,8 +315,8 @@ def test_bad_input_is_one_line_and_writes_nothing(cli, files, args, expected, co
     assert not (files / "new.sqlite3").exists()
 
 
-def _edit_entry(cli, seq: int, assignment: str) -> None:
-    """Change entry ``seq`` of KVA-101 by direct SQL, behind the ledger's back."""
+def _edit_entry(cli, seq: int, assignment: str, registration: str = "KVA-101") -> None:
+    """Change entry ``seq`` of a vehicle by direct SQL, behind the ledger's back."""
     from ledger.store.db import make_engine
 
     eng = make_engine(cli.db_url)
@@ -324,7 +324,7 @@ def _edit_entry(cli, seq: int, assignment: str) -> None:
         with eng.begin() as conn:
             conn.execute(text(f"UPDATE ledger_entries SET {assignment} WHERE seq = {seq} AND "
                               "vehicle_id = (SELECT id FROM vehicles WHERE registration = "
-                              "'KVA-101')"))
+                              f"'{registration}')"))
     finally:
         eng.dispose()
 
@@ -361,6 +361,16 @@ def test_no_sheet_check_or_inertia_report_on_a_ledger_that_does_not_verify(cli):
     # The other vehicle's chain is intact: its figures are still given.
     res = cli("inertia", "KVA-T75", "--assume-z", "0.9 m")
     assert res.exit_code == 0, res.stderr
+    # The CG height is computed against the recorded empty mass (and stored as an entry): on
+    # a chain that does not verify it is refused too, even as a dry run.
+    _edit_entry(cli, 1, "actor = 'someone else'", registration="KVA-T75")
+    before = dump(cli.db_url)
+    res = cli("cg-height", "KVA-T75", *LIFT, "--angle", "8 deg", "--dry-run")
+    assert (res.exit_code, res.stdout, res.stderr) == (
+        1, "", "Error: the ledger of KVA-T75 does not verify, so no sheet or report is built on "
+               "it: entry 1: its content does not match its hash (a field was changed after it "
+               "was written). See `wbledger verify KVA-T75`\n")
+    assert dump(cli.db_url) == before
 
 
 def _edit_sqlite_date(cli, column: str, value: str) -> None:

@@ -86,7 +86,6 @@ def test_cg_just_beyond_the_aft_limit_is_out_by_the_amount():
                             "81.39 in at 7,000 lb by 0.01 in")
 
 
-
 def test_an_excess_too_small_to_show_is_never_written_as_zero():
     # 81.4 in against an aft limit of 81.398 in: out by 0.002 in, below the 0.01 in shown.
     doc = sheet(add_type(aft_limit=81.398), empty_lb_in(6860, 80.0),
@@ -96,6 +95,7 @@ def test_an_excess_too_small_to_show_is_never_written_as_zero():
     assert_close(v["excess"] / IN, 0.002, unit="in", rtol=1e-9)
     assert v["message"] == ("Take-off CG 81.40 in is aft of the normal envelope's limit "
                             "81.40 in at 7,000 lb by less than 0.01 in")
+
 
 def shift_type(ballast: bool = False):
     stations = (station("forward cargo", "cargo", 30, max_mass=1000)
