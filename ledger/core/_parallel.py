@@ -9,7 +9,6 @@ itself.
 from __future__ import annotations
 
 import os
-from concurrent.futures import ThreadPoolExecutor
 from functools import lru_cache
 
 from ledger.errors import InputError
@@ -26,7 +25,11 @@ def cores() -> int:
 
 
 @lru_cache(maxsize=1)
-def _pool() -> ThreadPoolExecutor:
+def _pool():
+    # Imported here: concurrent.futures costs the CLI about 5 ms on every command that
+    # imports the envelope module, and only large sweeps use the pool.
+    from concurrent.futures import ThreadPoolExecutor
+
     return ThreadPoolExecutor(max_workers=max(1, cores() - 1), thread_name_prefix="ledger")
 
 

@@ -127,7 +127,8 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
                     "actual": float(loads.axle[i]), "excess": -margin, "unit": "kg",
                     "message": f"{phase_title(name)} load on axle '{a.name}' "
                                f"{mass_text(loads.axle[i], du)} is over its rating "
-                               f"{mass_text(a.rating_kg, du)} by {excess_text(mass_text, -margin, du)}"})
+                               f"{mass_text(a.rating_kg, du)} by "
+                               f"{excess_text(mass_text, -margin, du)}"})
         for g in vtype.axle_groups:
             if g.rating_kg is None:
                 continue

@@ -494,7 +494,8 @@ def _tank_checks(vtype, plan, violations: list) -> None:
                 "subject": f"tank '{t.name}'", "limit": room, "actual": loaded,
                 "excess": loaded - room, "unit": "m3" if t.basis == "volume" else "kg",
                 "message": f"Tank '{t.name}' holds {show(loaded, du)} of usable fuel, over its "
-                           f"usable capacity {show(room, du)} by {excess_text(show, loaded - room, du)}"})
+                           f"usable capacity {show(room, du)} by "
+                           f"{excess_text(show, loaded - room, du)}"})
 
 
 # --- the document -------------------------------------------------------------------------------

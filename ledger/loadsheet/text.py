@@ -83,4 +83,3 @@ def excess_text(show, amount: float, du: DisplayUnits) -> str:
     """
     number, _, unit = show(amount, du).rpartition(" ")
     return f"{nonzero_excess(number, amount)} {unit}"
-
