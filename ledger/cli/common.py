@@ -10,7 +10,7 @@ from typing import Any, Callable, NoReturn
 import typer
 
 #: Command modules that register themselves when present (one module per group of commands).
-OPTIONAL_MODULES = ("maintenance", "configs", "sheets", "inertia", "ground", "demo")
+OPTIONAL_MODULES = ("maintenance", "integrity", "configs", "sheets", "inertia", "ground", "demo")
 
 
 @dataclass

@@ -6,7 +6,7 @@ import typer
 
 from ledger.cli import common
 
-db_app = typer.Typer(help="Database schema: status and upgrades.", no_args_is_help=True)
+db_app = typer.Typer(help="Database schema: status, upgrades and roles.", no_args_is_help=True)
 
 
 def register(app: typer.Typer) -> None:
@@ -63,3 +63,30 @@ def status(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
         typer.echo(f"Needed:    {d['required_revision']}")
 
     common.emit(data, render, as_json)
+
+
+@db_app.command("roles")
+def roles(ctx: typer.Context,
+          prefix: str = typer.Option("wbledger", "--prefix", metavar="NAME",
+                                     help="Role names are NAME_auditor, NAME_loadmaster, "
+                                          "NAME_maintenance and NAME_weight_engineer."),
+          dry_run: bool = typer.Option(False, "--dry-run",
+                                       help="Print the SQL instead of running it.")) -> None:
+    """Create the PostgreSQL group roles (auditor, loadmaster, maintenance, weight engineer),
+    each granted only what it needs; run as the tables' owner, then grant a role to each
+    person's login (GRANT wbledger_loadmaster TO alice)."""
+    from ledger.store.roles import ROLE_GRANTS, create_roles, roles_sql
+
+    if dry_run:
+        for stmt in roles_sql(prefix):
+            typer.echo(stmt + ";")
+        return
+    engine = common.state(ctx).engine()
+    with engine.begin() as conn:
+        names = create_roles(conn, prefix)
+    for role, name in names.items():
+        inserts, _ = ROLE_GRANTS[role]
+        may = ("read" + (f"; add rows to {', '.join(inserts)}" if inserts else ""))
+        typer.echo(f"{name}: {may}")
+    typer.echo("No role owns a table: grant one to each person's login, e.g. "
+               f"GRANT {names['loadmaster']} TO alice;")

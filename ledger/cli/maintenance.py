@@ -1,5 +1,5 @@
 """Maintenance commands: ``weigh``, ``install``, ``remove``, ``correct``, ``history``,
-``verify``, ``export`` and ``import-history``.
+``export`` and ``import-history``.
 
 Each command parses its options, makes its call into :mod:`ledger.store` inside one
 transaction, and renders the result with :mod:`ledger.report.ledger`. Quantities are typed with
@@ -28,7 +28,6 @@ def register(app: typer.Typer) -> None:
     app.command("remove")(remove)
     app.command("correct")(correct)
     app.command("history")(history)
-    app.command("verify")(verify)
     app.command("export")(export)
     app.command("import-history")(import_history)
 
@@ -164,32 +163,6 @@ def history(ctx: typer.Context, registration: str = REG_ARG,
     with session_scope(common.state(ctx).engine()) as session:
         data = history_view(session, registration, as_of=as_of)
     common.emit(data, render_history, as_json)
-
-
-def verify(ctx: typer.Context,
-           registration: str = typer.Argument(None, metavar="[REG]",
-                                              help="One vehicle (default: every one)."),
-           expect: str = typer.Option(None, "--expect", metavar="HASH",
-                                      help="A head hash recorded earlier that the chain must "
-                                           "still contain (needs REG)."),
-           as_json: bool = common.JSON_OPTION) -> None:
-    """Check every hash chain; name the first entry that does not match (exit 1)."""
-    from ledger.errors import ChainError, InputError
-    from ledger.report.ledger import render_verify
-    from ledger.store.chain import verify_all, verify_vehicle
-    from ledger.store.db import session_scope
-
-    if expect and not registration:
-        raise InputError("--expect", expect, "needs a vehicle: wbledger verify REG --expect HASH")
-    with session_scope(common.state(ctx).engine()) as session:
-        reports = ([verify_vehicle(session, registration, expect_head=expect)] if registration
-                   else verify_all(session))
-    data = [r.to_dict() for r in reports]
-    common.emit(data, render_verify, as_json)
-    bad = [r for r in reports if not r.ok]
-    if bad:
-        raise ChainError(f"the chain of {bad[0].registration} does not verify: "
-                         f"{bad[0].problem}")
 
 
 def export(ctx: typer.Context, registration: str = REG_ARG,

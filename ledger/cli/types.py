@@ -64,7 +64,7 @@ def show(ctx: typer.Context, name: str = typer.Argument(..., help="Type name."),
 
     with session_scope(common.state(ctx).engine()) as session:
         row = type_revision(session, name, revision)
-        data = type_document(load_type(row), revision=row.revision,
+        data = type_document(load_type(session, row), revision=row.revision,
                              imported_at=row.imported_at.isoformat(),
                              content_sha256=row.content_sha256)
     common.emit(data, render_type, as_json)

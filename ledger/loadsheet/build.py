@@ -687,6 +687,7 @@ def _compute(vtype, empty, plan, *, configuration_items, prepared_by, prepared_a
         "empty_weight": {"entry_seq": _attr(empty, "seq"),
                          "entry_id": _attr(empty, "entry_id"),
                          "entry_date": _iso_date(_attr(empty, "entry_date")),
+                         "entry_hash": _attr(empty, "entry_hash"),
                          "mass_kg": _empty_state(empty).mass,
                          "cg_m": empty_cg,
                          "moment_kgm": {"x": _empty_state(empty).mx,

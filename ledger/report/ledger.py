@@ -290,18 +290,42 @@ def render_entry(doc: dict) -> None:
         con.print(f"! {w['message']}", overflow="fold")
 
 
-def render_verify(reports: list[dict]) -> None:
-    """Chain verification, one line per vehicle (``wbledger verify``)."""
+def render_verify(doc: dict) -> None:
+    """What ``wbledger verify`` found: each vehicle, then types and guards."""
     con = _console()
-    if not reports:
+    if not doc["vehicles"] and not doc["types"]:
         con.print("No vehicles.")
-    for r in reports:
+    for r in doc["vehicles"]:
         if r["ok"]:
-            con.print(f"{r['registration']}: {r['entries']} entries, chain verified")
+            sheets = (f", {r['sheets']} saved sheet{'s' if r['sheets'] != 1 else ''}"
+                      if r["sheets"] else "")
+            con.print(f"{r['registration']}: {r['entries']} entries{sheets}, chain verified")
             if r["head_hash"]:
                 con.print(f"  head {r['head_hash']}")
+            if r["sheets"]:
+                con.print(f"  sheet head {r['sheet_head_hash']}")
         else:
             con.print(f"{r['registration']}: NOT VERIFIED: {r['problem']}", overflow="fold")
+    for t in doc["types"]:
+        if t["ok"]:
+            con.print(f"type {t['type']}: {t['revisions']} revision"
+                      f"{'s' if t['revisions'] != 1 else ''}, verified", overflow="fold")
+        else:
+            con.print(f"type {t['type']}: NOT VERIFIED: {t['problem']}", overflow="fold")
+    for e in doc["expected"]:
+        state = "found" if e["found"] else "NOT FOUND: rows were removed or replaced"
+        con.print(f"expected {e['hash']}: {state}", overflow="fold")
+    cp = doc.get("checkpoint")
+    if cp is not None:
+        state = ("matches" if not cp["problems"]
+                 else f"DOES NOT MATCH: {'; '.join(cp['problems'])}")
+        con.print(f"checkpoint {cp['file']} of {cp['created_at']}: {state}; signature "
+                  f"{cp['signature']}", overflow="fold")
+        added = "; ".join(cp["added"]) or "nothing"
+        con.print(f"  added since: {added}", overflow="fold")
+    guards = doc["guards"]
+    con.print("append-only guards: in place" if guards["ok"]
+              else f"append-only guards: NOT IN PLACE: {guards['problem']}", overflow="fold")
 
 
 def render_import(d: dict) -> None:

@@ -18,6 +18,7 @@ from sqlalchemy.orm import Session
 
 from ledger.errors import ConflictError, InputError, NotFoundError
 from ledger.store.models import TypeRevisionRow, VehicleRow, VehicleTypeRow
+from ledger.store.seal import GENESIS_HASH, type_revision_seal, vehicle_seal
 
 __all__ = [
     "ImportResult",
@@ -65,17 +66,27 @@ def import_type(session: Session, vtype, source_name: str, source_text: str) -> 
     )
     if existing is not None:
         return ImportResult(vtype.name, existing.revision, False, digest)
-    last = session.scalar(
-        select(func.max(TypeRevisionRow.revision)).where(TypeRevisionRow.type_id == type_row.id)
-    )
+    last = session.execute(
+        select(TypeRevisionRow.revision, TypeRevisionRow.row_hash)
+        .where(TypeRevisionRow.type_id == type_row.id)
+        .order_by(TypeRevisionRow.revision.desc()).limit(1)
+    ).first()
+    revision, prev_hash = (last[0] + 1, last[1]) if last else (1, GENESIS_HASH)
+    spec_json = json.dumps(vtype.to_dict(), sort_keys=True, allow_nan=False)
+    imported_at = _now()
     row = TypeRevisionRow(
         type_id=type_row.id,
-        revision=(last or 0) + 1,
+        revision=revision,
         content_sha256=digest,
         source_name=source_name,
         source_text=source_text,
-        spec_json=json.dumps(vtype.to_dict(), sort_keys=True, allow_nan=False),
-        imported_at=_now(),
+        spec_json=spec_json,
+        imported_at=imported_at,
+        prev_hash=prev_hash,
+        row_hash=type_revision_seal(
+            type_name=vtype.name, revision=revision, content_sha256=digest,
+            source_name=source_name, source_text=source_text, spec_json=spec_json,
+            imported_at=imported_at, prev_hash=prev_hash),
     )
     session.add(row)
     session.flush()
@@ -146,11 +157,12 @@ def type_revision(session: Session, name: str, revision: int | None = None) -> T
     return row
 
 
-def load_type(row: TypeRevisionRow):
-    """Rebuild the :class:`ledger.typedata.VehicleType` stored in a revision row."""
-    from ledger.typedata import VehicleType
+def load_type(session: Session, row: TypeRevisionRow):
+    """The :class:`ledger.typedata.VehicleType` stored in a revision row, once the type's
+    chain of revisions verifies (:func:`ledger.store.evidence.checked_type`)."""
+    from ledger.store.evidence import checked_type
 
-    return VehicleType.from_dict(json.loads(row.spec_json))
+    return checked_type(session, row.type_id, row.revision)[1]
 
 
 def add_vehicle(session: Session, registration: str, type_name: str, *,
@@ -163,8 +175,11 @@ def add_vehicle(session: Session, registration: str, type_name: str, *,
     if session.scalar(select(VehicleRow.id).where(VehicleRow.registration == registration)):
         raise ConflictError(f"vehicle {registration!r} already exists; "
                             "see it with `wbledger vehicle show " + registration + "`")
+    created_at = _now()
     row = VehicleRow(registration=registration, type_id=rev.type_id, serial=serial, note=note,
-                     created_at=_now())
+                     created_at=created_at,
+                     row_hash=vehicle_seal(registration=registration, type_name=type_name,
+                                           serial=serial, note=note, created_at=created_at))
     session.add(row)
     session.flush()
     return row
@@ -189,4 +204,4 @@ def vehicle_type(session: Session, vehicle: VehicleRow) -> tuple[TypeRevisionRow
     """The newest revision row of the vehicle's type and the parsed type."""
     name = session.scalar(select(VehicleTypeRow.name).where(VehicleTypeRow.id == vehicle.type_id))
     row = type_revision(session, name)
-    return row, load_type(row)
+    return row, load_type(session, row)

@@ -16,6 +16,7 @@ installed there (``wbledger install``).
 from __future__ import annotations
 
 import datetime as dt
+import itertools
 import json
 import math
 import re
@@ -26,9 +27,11 @@ from typing import Any
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from ledger.errors import ConflictError, InputError, NotFoundError
-from ledger.store.chain import canonical_json
+from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
+from ledger.store.chain import GENESIS_HASH, canonical_json
 from ledger.store.models import ConfigurationRow, VehicleRow, VehicleTypeRow
+from ledger.store.roles import recorder
+from ledger.store.seal import configuration_seal
 
 __all__ = [
     "ConfigItemView",
@@ -154,6 +157,31 @@ def parse_item_spec(text: str, *, field: str = "--install") -> dict:
             "y": arms[1], "z": arms[2]}
 
 
+def _in_force(session: Session, owner_filter, owner_kind: str,
+              owner: str) -> dict[str, ConfigurationRow]:
+    """The version in force (the newest) of each configuration of one owner, by name, once
+    every configuration's chain of versions verifies.
+
+    Raises
+    ------
+    ChainError
+        A version was changed, removed or inserted outside wbledger.
+    """
+    from ledger.store.evidence import check_configuration_chain
+
+    rows = session.scalars(select(ConfigurationRow).where(owner_filter)
+                           .order_by(ConfigurationRow.name, ConfigurationRow.version)).all()
+    out: dict[str, ConfigurationRow] = {}
+    for name, group in itertools.groupby(rows, key=lambda r: r.name):
+        group = list(group)
+        why = check_configuration_chain(group, owner_kind, owner)
+        if why:
+            raise ChainError(f"the configurations of {owner} do not verify, so none is used: "
+                             f"{why}. See `wbledger verify`")
+        out[name] = group[-1]
+    return out
+
+
 def _type_row(session: Session, type_name: str) -> VehicleTypeRow:
     from ledger.store.catalog import type_revision
 
@@ -277,21 +305,26 @@ def define_configuration(session: Session, name: str, *, actor: str,
             raise InputError("--disable-station", s, "a station of the type: "
                              + (", ".join(stations) or "none"))
     text = canonical_json({"items": out_items, "disables_stations": list(disables_stations)})
-    row = session.scalar(select(ConfigurationRow).where(owner_filter,
-                                                        ConfigurationRow.name == cname))
+    owner_kind = "vehicle" if registration else "type"
+    actor = recorder(session, actor)
+    current = _in_force(session, owner_filter, owner_kind, owner).get(cname)
     now = dt.datetime.now(dt.timezone.utc)
-    if row is not None and not replace:
+    if current is not None and not replace:
         raise ConflictError(f"configuration {cname!r} of {owner} exists already; give "
                             "--replace to redefine it")
-    if row is None:
-        row = ConfigurationRow(name=cname, items_json=text, description=description,
-                               created_at=now, created_by=actor,
-                               type_id=None if registration else owner_type_id,
-                               vehicle_id=vehicle.id if registration else None)
-        session.add(row)
-    else:
-        row.items_json, row.description, row.created_at, row.created_by = (
-            text, description, now, actor)
+    # A redefinition is a new version; the one it replaces stays, as everything stored does.
+    version = 1 if current is None else current.version + 1
+    prev_hash = GENESIS_HASH if current is None else current.row_hash
+    row = ConfigurationRow(name=cname, items_json=text, description=description,
+                           created_at=now, created_by=actor,
+                           type_id=None if registration else owner_type_id,
+                           vehicle_id=vehicle.id if registration else None,
+                           version=version, prev_hash=prev_hash,
+                           row_hash=configuration_seal(
+                               owner_kind=owner_kind, owner=owner, name=cname, version=version,
+                               description=description, items_json=text, created_at=now,
+                               created_by=actor, prev_hash=prev_hash))
+    session.add(row)
     session.flush()
     return _from_row(row, "vehicle" if registration else "type", owner)
 
@@ -307,24 +340,26 @@ def list_configurations(session: Session, *, type_name: str | None = None,
         tname = session.scalar(select(VehicleTypeRow.name)
                                .where(VehicleTypeRow.id == vehicle.type_id))
         found = {c.name: c for c in list_configurations(session, type_name=tname)}
-        for row in session.scalars(select(ConfigurationRow)
-                                   .where(ConfigurationRow.vehicle_id == vehicle.id)):
+        for row in _in_force(session, ConfigurationRow.vehicle_id == vehicle.id, "vehicle",
+                             vehicle.registration).values():
             found[row.name] = _from_row(row, "vehicle", vehicle.registration)
         return sorted(found.values(), key=lambda c: c.name)
     if type_name is not None:
         trow = _type_row(session, type_name)
         vtype = _vtype_by_type_id(session, trow.id)
         out = [_from_type_file(c, trow.name) for c in vtype.configurations]
-        out += [_from_row(r, "type", trow.name) for r in session.scalars(
-            select(ConfigurationRow).where(ConfigurationRow.type_id == trow.id))]
+        out += [_from_row(r, "type", trow.name) for r in _in_force(
+            session, ConfigurationRow.type_id == trow.id, "type", trow.name).values()]
         return sorted(out, key=lambda c: c.name)
     out = []
     for tname in session.scalars(select(VehicleTypeRow.name).order_by(VehicleTypeRow.name)):
         out += list_configurations(session, type_name=tname)
-    rows = session.execute(select(ConfigurationRow, VehicleRow.registration)
-                           .join(VehicleRow, VehicleRow.id == ConfigurationRow.vehicle_id)
-                           .order_by(VehicleRow.registration, ConfigurationRow.name)).all()
-    out += [_from_row(r, "vehicle", reg) for r, reg in rows]
+    owners = session.execute(select(VehicleRow.id, VehicleRow.registration)
+                             .where(VehicleRow.id.in_(select(ConfigurationRow.vehicle_id)))
+                             .order_by(VehicleRow.registration)).all()
+    for vid, reg in owners:
+        out += [_from_row(r, "vehicle", reg) for r in _in_force(
+            session, ConfigurationRow.vehicle_id == vid, "vehicle", reg).values()]
     return out
 
 

@@ -46,8 +46,8 @@ from sqlalchemy import bindparam, event, func, insert, select, true
 from sqlalchemy.orm import Session
 
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
-from ledger.store.chain import (ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash,
-                                verify_vehicle)
+from ledger.store.roles import recorder
+from ledger.store.chain import ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash
 from ledger.typedata.model import SHAPE_DIMENSIONS
 from ledger.store.models import (
     ENTRY_KINDS,
@@ -170,7 +170,8 @@ class Entry:
         """The running empty state after this entry."""
         return EmptyState(self.registration, self.id, self.seq, self.entry_date,
                           self.empty_mass_kg, self.empty_mx_kgm, self.empty_my_kgm,
-                          self.empty_mz_kgm, self.z_known, self.baseline_seq)
+                          self.empty_mz_kgm, self.z_known, self.baseline_seq,
+                          self.entry_hash)
 
     def to_dict(self) -> dict:
         """JSON-able, SI values with unit-named keys."""
@@ -212,6 +213,8 @@ class EmptyState:
     mz_kgm: float
     z_known: bool
     baseline_seq: int
+    #: The entry's hash: the ledger head a sheet built on this state records and prints.
+    entry_hash: str | None = None
 
     @property
     def moments_kgm(self) -> tuple[float, float, float | None]:
@@ -409,8 +412,6 @@ def parse_shape(spec, units=None, *, field: str = "--shape") -> dict | None:
 
 # --- type and head lookups ------------------------------------------------------------------
 
-_TYPE_CACHE: dict[str, Any] = {}
-
 
 def vehicle_type_info(session: Session, vehicle) -> TypeInfo:
     """The newest revision of the vehicle's type, parsed (cached by content hash)."""
@@ -418,26 +419,13 @@ def vehicle_type_info(session: Session, vehicle) -> TypeInfo:
 
 
 def type_info(session: Session, type_id: int) -> TypeInfo:
-    """The newest revision of type ``type_id``, parsed (cached by content hash)."""
-    row = session.execute(
-        select(VehicleTypeRow.name, TypeRevisionRow.id, TypeRevisionRow.revision,
-               TypeRevisionRow.content_sha256)
-        .join(TypeRevisionRow, TypeRevisionRow.type_id == VehicleTypeRow.id)
-        .where(VehicleTypeRow.id == type_id)
-        .order_by(TypeRevisionRow.revision.desc()).limit(1)
-    ).one()
-    name, rev_id, revision, digest = row
-    vtype = _TYPE_CACHE.get(digest)
-    if vtype is None:
-        from ledger.typedata.model import VehicleType
+    """The newest revision of type ``type_id``, parsed, once the type's chain of revisions
+    verifies (:func:`ledger.store.evidence.checked_type`)."""
+    from ledger.store.evidence import checked_type
 
-        spec = session.scalar(select(TypeRevisionRow.spec_json)
-                              .where(TypeRevisionRow.id == rev_id))
-        vtype = VehicleType.from_dict(json.loads(spec))
-        if len(_TYPE_CACHE) > 64:
-            _TYPE_CACHE.clear()
-        _TYPE_CACHE[digest] = vtype
-    return TypeInfo(name, rev_id, revision, vtype)
+    row, vtype = checked_type(session, type_id)
+    name = session.scalar(select(VehicleTypeRow.name).where(VehicleTypeRow.id == type_id))
+    return TypeInfo(name, row.id, row.revision, vtype)
 
 
 class _Vehicle(NamedTuple):
@@ -652,7 +640,7 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
         if v is not None and not math.isfinite(v):
             raise InputError(name, v, "a finite number")
     day = parse_date(entry_date)
-    actor_text = _text(actor, "--by", required=True)
+    actor_text = recorder(session, _text(actor, "--by", required=True))
 
     vehicle = _vehicle_row if _vehicle_row is not None else _vehicle(session, registration,
                                                                       lock=True)
@@ -1129,25 +1117,25 @@ def current_empty(session: Session, registration: str, *,
     ConflictError
         No weighing recorded (on or before ``as_of``).
     ChainError
-        The vehicle's chain does not verify (as ``wbledger verify`` reports it).
+        The vehicle's evidence does not verify (as ``wbledger verify`` reports it): its
+        record, its type's revisions, its ledger chain, or the head its newest sheet recorded.
     """
+    from ledger.store.evidence import require_vehicle
+
     vehicle = _vehicle(session, registration)
-    report = verify_vehicle(session, vehicle.registration)
-    if not report.ok:
-        raise ChainError(f"the ledger of {vehicle.registration} does not verify, so no sheet or "
-                         f"report is built on it: {report.problem}. See `wbledger verify "
-                         f"{vehicle.registration}`")
+    require_vehicle(session, vehicle)
     query = _as_of_filter(
         select(_E.id, _E.seq, _E.entry_date, _E.empty_mass_kg, _E.empty_mx_kgm,
-               _E.empty_my_kgm, _E.empty_mz_kgm, _E.z_known, _E.baseline_seq)
+               _E.empty_my_kgm, _E.empty_mz_kgm, _E.z_known, _E.baseline_seq, _E.entry_hash)
         .where(_E.vehicle_id == vehicle.id), as_of).order_by(_E.seq.desc()).limit(1)
     row = session.execute(query).first()
     if row is None:
         if as_of is not None and _head(session, vehicle.id) is not None:
             raise ConflictError(f"vehicle {registration!r} has no entry on or before {as_of}")
         raise _no_weighing(registration)
-    eid, seq, day, m, mx, my, mz, zk, base = row
-    return EmptyState(vehicle.registration, eid, seq, day, m, mx, my, mz, bool(zk), base)
+    eid, seq, day, m, mx, my, mz, zk, base, ehash = row
+    return EmptyState(vehicle.registration, eid, seq, day, m, mx, my, mz, bool(zk), base,
+                      ehash)
 
 
 def entries_of(session: Session, registration: str, *,

@@ -15,10 +15,15 @@ The tables:
     Weighings, installations, removals, corrections and CG-height records, each with the
     running empty mass and moments after it.
 ``configurations``
-    Named groups of removable items, kept per type or per vehicle.
+    Named groups of removable items, kept per type or per vehicle; a redefinition is a new
+    version.
 ``loading_sheets``
     Saved plans with their results, the type revision and ledger entry they used, and the sheet
     they amend, if any.
+
+Every table is append-only: migration 0003 installs triggers that refuse UPDATE and DELETE
+(and TRUNCATE on PostgreSQL), and every row carries a seal (``row_hash``, or ``entry_hash``
+for ledger entries) that :mod:`ledger.store.evidence` checks.
 """
 
 from __future__ import annotations
@@ -98,6 +103,9 @@ class TypeRevisionRow(Base):
     source_text: Mapped[str] = mapped_column(Text, nullable=False)
     spec_json: Mapped[str] = mapped_column(Text, nullable=False)
     imported_at: Mapped[Timestamp]
+    # The seal (ledger.store.seal): the previous revision's row_hash, and this row's own.
+    prev_hash: Mapped[Sha256]
+    row_hash: Mapped[Sha256]
 
 
 class VehicleRow(Base):
@@ -109,6 +117,8 @@ class VehicleRow(Base):
     serial: Mapped[str | None] = mapped_column(String(120))
     note: Mapped[str | None] = mapped_column(Text)
     created_at: Mapped[Timestamp]
+    # The seal over the registration, the type's name and the rest (ledger.store.seal).
+    row_hash: Mapped[Sha256]
 
 
 class LedgerEntryRow(Base):
@@ -173,11 +183,12 @@ class ConfigurationRow(Base):
     __table_args__ = (
         # One owner per row, so each pair is unique among the rows of that owner (the NULL of
         # the other owner never collides: SQL treats NULLs in a UNIQUE constraint as distinct).
-        UniqueConstraint("type_id", "name"),
-        UniqueConstraint("vehicle_id", "name"),
+        UniqueConstraint("type_id", "name", "version"),
+        UniqueConstraint("vehicle_id", "name", "version"),
         CheckConstraint(
             "(type_id IS NULL) <> (vehicle_id IS NULL)", name="one_owner"
         ),
+        CheckConstraint("version >= 1", name="version_positive"),
     )
 
     id: Mapped[IntPK]
@@ -188,6 +199,10 @@ class ConfigurationRow(Base):
     items_json: Mapped[str] = mapped_column(Text, nullable=False)
     created_at: Mapped[Timestamp]
     created_by: Mapped[str] = mapped_column(String(200), nullable=False)
+    # A redefinition is a new row with the next version; the newest version is in force.
+    version: Mapped[int] = mapped_column(Integer, nullable=False)
+    prev_hash: Mapped[Sha256]
+    row_hash: Mapped[Sha256]
 
 
 class LoadingSheetRow(Base):
@@ -196,6 +211,8 @@ class LoadingSheetRow(Base):
     __tablename__ = "loading_sheets"
     __table_args__ = (
         CheckConstraint("verdict IN ('in_limits', 'out_of_limits')", name="verdict_known"),
+        # One chain per vehicle: two sheets can never follow the same one.
+        UniqueConstraint("vehicle_id", "prev_hash"),
     )
 
     id: Mapped[IntPK]
@@ -209,3 +226,8 @@ class LoadingSheetRow(Base):
     plan_json: Mapped[str] = mapped_column(Text, nullable=False)
     result_json: Mapped[str] = mapped_column(Text, nullable=False)
     content_sha256: Mapped[Sha256]
+    # The ledger head the sheet was built on (the entry_hash of entry_id), the previous sheet
+    # of the same vehicle's row_hash, and this sheet's seal over all of it (ledger.store.seal).
+    entry_hash: Mapped[Sha256]
+    prev_hash: Mapped[Sha256]
+    row_hash: Mapped[Sha256]

@@ -22,12 +22,12 @@ import datetime as dt
 import hashlib
 import json
 from dataclasses import dataclass, field
-from typing import Any
+from typing import Any, NamedTuple
 
 from sqlalchemy import event, select
 from sqlalchemy.orm import Session
 
-from ledger.errors import ConflictError, NotFoundError
+from ledger.errors import ChainError, ConflictError, NotFoundError
 from ledger.store.models import (
     LedgerEntryRow,
     LoadingSheetRow,
@@ -35,6 +35,8 @@ from ledger.store.models import (
     VehicleRow,
     VehicleTypeRow,
 )
+from ledger.store.roles import recorder
+from ledger.store.seal import GENESIS_HASH, sheet_seal
 
 __all__ = [
     "SavedSheet",
@@ -150,6 +152,7 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
         The saved sheet this one amends.
     """
     created_at = created_at or dt.datetime.now(dt.timezone.utc)
+    preparer = recorder(session, preparer)
     doc = json.loads(canonical_json(document))  # a copy; refuses NaN
     doc.setdefault("sheet", {})
     doc["sheet"] = {"id": None, "amends": None, "saved": False}
@@ -162,13 +165,51 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
                                 entry_id=entry_id, amends_id=amends_id, created_at=created_at,
                                 preparer=preparer, verdict=verdict, plan_json=plan_json,
                                 result_json=result_json)
+    links = _links(session, vehicle_id=vehicle_id, type_revision_id=type_revision_id,
+                   entry_id=entry_id, amends_id=amends_id)
     row = LoadingSheetRow(vehicle_id=vehicle_id, type_revision_id=type_revision_id,
                           entry_id=entry_id, amends_id=amends_id, created_at=created_at,
                           preparer=preparer, verdict=verdict, plan_json=plan_json,
-                          result_json=result_json, content_sha256=digest)
+                          result_json=result_json, content_sha256=digest,
+                          entry_hash=links.entry_hash, prev_hash=links.prev_hash,
+                          row_hash=sheet_seal(content_sha256=digest, **links._asdict()))
     session.add(row)
     session.flush()
     return get_sheet(session, row.id)
+
+
+class _Links(NamedTuple):
+    registration: str
+    type_name: str
+    type_revision: int
+    type_hash: str
+    entry_seq: int
+    entry_hash: str
+    amends_hash: str | None
+    prev_hash: str
+
+
+def _links(session: Session, *, vehicle_id: int, type_revision_id: int, entry_id: int,
+           amends_id: int | None) -> _Links:
+    """What a new sheet's seal covers besides its content: the vehicle (locked, so that two
+    sheets saved at once cannot both follow the same one), the type revision, the ledger head,
+    the amended sheet and the vehicle's newest sheet."""
+    reg = session.execute(select(VehicleRow.registration).where(VehicleRow.id == vehicle_id)
+                          .with_for_update()).scalar_one()
+    tname, revision, type_hash = session.execute(
+        select(VehicleTypeRow.name, TypeRevisionRow.revision, TypeRevisionRow.row_hash)
+        .join(TypeRevisionRow, TypeRevisionRow.type_id == VehicleTypeRow.id)
+        .where(TypeRevisionRow.id == type_revision_id)).one()
+    seq, entry_hash = session.execute(
+        select(LedgerEntryRow.seq, LedgerEntryRow.entry_hash)
+        .where(LedgerEntryRow.id == entry_id, LedgerEntryRow.vehicle_id == vehicle_id)).one()
+    amends_hash = None if amends_id is None else session.scalar(
+        select(LoadingSheetRow.row_hash).where(LoadingSheetRow.id == amends_id))
+    prev = session.scalar(select(LoadingSheetRow.row_hash)
+                          .where(LoadingSheetRow.vehicle_id == vehicle_id)
+                          .order_by(LoadingSheetRow.id.desc()).limit(1))
+    return _Links(reg, tname, revision, type_hash, seq, entry_hash, amends_hash,
+                  prev or GENESIS_HASH)
 
 
 def _query():
@@ -184,7 +225,7 @@ def _saved(row: LoadingSheetRow, registration: str, type_name: str, revision: in
            seq: int) -> SavedSheet:
     doc = json.loads(row.result_json)
     doc["sheet"] = {"id": row.id, "amends": row.amends_id, "saved": True,
-                    "content_sha256": row.content_sha256}
+                    "content_sha256": row.content_sha256, "sheet_hash": row.row_hash}
     return SavedSheet(id=row.id, registration=registration, vehicle_id=row.vehicle_id,
                       type_revision_id=row.type_revision_id, type_name=type_name,
                       type_revision=revision, entry_id=row.entry_id, entry_seq=seq,
@@ -221,16 +262,13 @@ def amendments_of(session: Session, sheet_id: int) -> list[int]:
 
 
 def verify_sheet(session: Session, sheet_id: int) -> bool:
-    """Recompute the content hash of a saved sheet; True when it matches what was stored."""
-    row = session.get(LoadingSheetRow, int(sheet_id))
-    if row is None:
+    """Whether saved sheet ``sheet_id`` verifies: its content hash, its seal, and the chain of
+    its vehicle's sheets up to it (:func:`ledger.store.evidence.sheet_problem`)."""
+    from ledger.store.evidence import sheet_problem
+
+    if session.get(LoadingSheetRow, int(sheet_id)) is None:
         raise NotFoundError("loading sheet", int(sheet_id))
-    digest = sheet_content_hash(vehicle_id=row.vehicle_id,
-                                type_revision_id=row.type_revision_id, entry_id=row.entry_id,
-                                amends_id=row.amends_id, created_at=row.created_at,
-                                preparer=row.preparer, verdict=row.verdict,
-                                plan_json=row.plan_json, result_json=row.result_json)
-    return digest == row.content_sha256
+    return sheet_problem(session, sheet_id) is None
 
 
 # --- preparing, saving and amending sheets (the library calls behind `wbledger sheet`) ---------
@@ -282,7 +320,7 @@ def _context(session: Session, raw: dict, source: str, type_revision_id: int | N
         rev_id, revision, vtype = info.revision_id, info.revision, info.vtype
     else:
         row = session.get(TypeRevisionRow, type_revision_id)
-        rev_id, revision, vtype = row.id, row.revision, load_type(row)
+        rev_id, revision, vtype = row.id, row.revision, load_type(session, row)
     empty = current_empty(session, vehicle.registration)
     cfg = None
     name = raw.get("configuration")
@@ -311,6 +349,7 @@ def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
     from ledger.typedata.plan import parse_plan
 
     prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
+    preparer = recorder(session, preparer)
     vehicle, rev_id, revision, vtype, empty, cfg = _context(session, raw, source)
     plan = parse_plan(raw, vtype, source=source,
                       disabled_stations=None if cfg is None else cfg.disables_stations)
@@ -374,7 +413,14 @@ def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | No
     from ledger.loadsheet.amend import compare_plans
     from ledger.typedata.plan import Plan, merge_options, parse_plan
 
+    from ledger.store.evidence import sheet_problem
+
+    preparer = recorder(session, preparer)
     original = get_sheet(session, sheet_id)
+    problem = sheet_problem(session, original.id)
+    if problem:
+        raise ChainError(f"sheet {original.id} does not verify, so it is not amended: "
+                         f"{problem}. See `wbledger verify {original.registration}`")
     later = amendments_of(session, original.id)
     if later:
         raise ConflictError(f"loading sheet {original.id} was already amended by sheet "

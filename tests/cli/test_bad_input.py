@@ -23,6 +23,7 @@ import uuid
 import pytest
 from sqlalchemy import inspect, text
 
+from ledger.store import guards
 from tests.conftest import DEMO_FLEET
 
 P4, TR75 = DEMO_FLEET / "kv-p4.toml", DEMO_FLEET / "kv-tr75.toml"
@@ -204,8 +205,8 @@ CASES = [
     (["history", "KVA-101", "--as-of", "01/02/2025"],
      "Error: --as-of = '01/02/2025': a date written YYYY-MM-DD, e.g. 2026-03-01", 2),
     (["verify", "KVA-101", "--expect", "abc"],
-     "Error: --expect = 'abc': a head hash: 64 hexadecimal digits (0-9, a-f) as `wbledger "
-     "verify` prints it", 2),
+     "Error: --expect = 'abc': a hash: 64 hexadecimal digits (0-9, a-f) as a sheet or "
+     "`wbledger verify` prints it", 2),
     (["export", "KVA-101", "-o", "{tmp}/no-folder/ledger.csv"],
      "Error: --output = '{tmp}/no-folder/ledger.csv': a file in an existing folder; "
      "'{tmp}/no-folder' does not exist", 2),
@@ -322,6 +323,7 @@ def _edit_entry(cli, seq: int, assignment: str, registration: str = "KVA-101") -
     eng = make_engine(cli.db_url)
     try:
         with eng.begin() as conn:
+            guards.drop(conn, ["ledger_entries"])
             conn.execute(text(f"UPDATE ledger_entries SET {assignment} WHERE seq = {seq} AND "
                               "vehicle_id = (SELECT id FROM vehicles WHERE registration = "
                               f"'{registration}')"))
@@ -382,6 +384,7 @@ def _edit_sqlite_date(cli, column: str, value: str) -> None:
 
     con = sqlite3.connect(cli.db_url.removeprefix("sqlite:///"))
     with con:
+        con.execute("DROP TRIGGER ledger_entries_append_only_update")
         con.execute(f"UPDATE ledger_entries SET {column} = ? WHERE seq = 2", (value,))
     con.close()
 

@@ -17,7 +17,7 @@ def _init(cli):
 
 def test_init_then_import_list_show(cli):
     res = _init(cli)
-    assert "Schema empty -> 0002." in res.stdout
+    assert "Schema empty -> 0003." in res.stdout
     res = cli("type", "import", str(P4))
     assert res.exit_code == 0, res.output
     assert res.stdout.strip() == f"{P4}: type KV-P4 imported as revision 1"

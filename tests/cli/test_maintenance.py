@@ -16,6 +16,7 @@ import sys
 import pytest
 from sqlalchemy import text
 
+from ledger.store import guards
 from tests.store.ledger_support import snapshot, write_types
 
 A_READINGS = ["--reading", "nose=1715", "--reading", "left main=2572.5 lb",
@@ -226,7 +227,8 @@ BAD = [
      "`wbledger weigh KV-102 --reading POINT=MASS …`"),
     (["export", "KV-101", "--format", "xml"], "Error: --format = 'xml': csv or json"),
     (["verify", "--expect", "abc"],
-     "Error: --expect = 'abc': needs a vehicle: wbledger verify REG --expect HASH"),
+     "Error: --expect = 'abc': a hash: 64 hexadecimal digits (0-9, a-f) as a sheet or "
+     "`wbledger verify` prints it"),
 ]
 
 
@@ -289,16 +291,21 @@ def test_verify_names_the_first_bad_entry_and_exits_1(ready, db):
     ok(ready("install", "KV-101", "horn", "--mass", "1", "--arm", "10", "--reason", "fit",
              "--date", "2025-01-11"))
     with db.begin() as conn:
+        guards.drop(conn, ["ledger_entries"])
         conn.execute(text("UPDATE ledger_entries SET item_mass_kg = 0.5 WHERE seq = 2"))
     r = ready("verify")
     assert r.exit_code == 1
     assert " ".join(r.stdout.split()) == (
         "KV-101: NOT VERIFIED: entry 2: its content does not match its hash (a field was "
-        "changed after it was written) KV-102: 0 entries, chain verified")
+        "changed after it was written) KV-102: 0 entries, chain verified "
+        "type TT-A1: 1 revision, verified type TT-D1: 1 revision, verified "
+        "type TT-H1: 1 revision, verified append-only guards: NOT IN PLACE: the append-only "
+        "guards of ledger_entries are missing or disabled: the database was opened for "
+        "editing outside wbledger")
     assert r.stderr == ("Error: the chain of KV-101 does not verify: entry 2: its content does "
                         "not match its hash (a field was changed after it was written)\n")
     data = json.loads(ready("verify", "KV-101", "--json").stdout)
-    assert data[0]["ok"] is False and data[0]["bad_seq"] == 2
+    assert data["ok"] is False and data["vehicles"][0]["bad_seq"] == 2
 
 
 COMMANDS = [["weigh"], ["install"], ["remove"], ["correct"], ["history"], ["verify"],

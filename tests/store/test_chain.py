@@ -15,6 +15,7 @@ from sqlalchemy import text
 
 from ledger.store import chain, entries
 from ledger.store.db import session_scope
+from ledger.store import guards
 from tests.store.ledger_support import DAY0, setup_fleet, weigh_a
 
 D1 = DAY0 + dt.timedelta(days=1)
@@ -150,6 +151,7 @@ def test_every_field_edited_by_sql_is_caught(chained):
             expr = _time_plus_1us(dialect)
         with chained.connect() as conn:
             trans = conn.begin()
+            guards.drop(conn, ["ledger_entries"])  # a hand edit removes the guard first
             n = conn.execute(text(
                 f"UPDATE ledger_entries SET {column} = {expr} WHERE seq = 3 AND vehicle_id = "
                 "(SELECT id FROM vehicles WHERE registration = 'KV-101')")).rowcount
@@ -169,6 +171,7 @@ def test_every_field_edited_by_sql_is_caught(chained):
 
 def test_changing_the_registration_breaks_that_vehicles_chain(chained):
     with chained.begin() as conn:
+        guards.drop(conn, ["vehicles"])
         conn.execute(text("UPDATE vehicles SET registration = 'KV-999' "
                           "WHERE registration = 'KV-102'"))
     rep = _reports(chained)["KV-999"]
@@ -179,6 +182,7 @@ def test_deleted_and_reordered_entries_are_caught(chained):
     vid = "(SELECT id FROM vehicles WHERE registration = 'KV-101')"
     with chained.connect() as conn:
         trans = conn.begin()
+        guards.drop(conn, ["ledger_entries"])
         conn.execute(text(f"DELETE FROM ledger_entries WHERE seq = 2 AND vehicle_id = {vid}"))
         from sqlalchemy.orm import Session
 
@@ -188,6 +192,7 @@ def test_deleted_and_reordered_entries_are_caught(chained):
     assert (rep.bad_seq, rep.problem) == (3, "entry 3 follows entry 1: entry 2 is missing")
     with chained.connect() as conn:
         trans = conn.begin()
+        guards.drop(conn, ["ledger_entries"])
         conn.execute(text(f"UPDATE ledger_entries SET seq = 99 WHERE seq = 5 AND vehicle_id = "
                           f"{vid}"))
         with Session(bind=conn) as s:
@@ -198,6 +203,7 @@ def test_deleted_and_reordered_entries_are_caught(chained):
     with session_scope(chained) as s:
         head = chain.verify_vehicle(s, "KV-101").head_hash
     with chained.begin() as conn:
+        guards.drop(conn, ["ledger_entries"])
         conn.execute(text(f"DELETE FROM ledger_entries WHERE seq = 5 AND vehicle_id = {vid}"))
     with session_scope(chained) as s:
         assert chain.verify_vehicle(s, "KV-101").ok
@@ -219,6 +225,7 @@ def test_a_rehashed_entry_breaks_the_next_link(chained):
     new_hash = chain.content_hash(values, "KV-101")
     with chained.connect() as conn:
         trans = conn.begin()
+        guards.drop(conn, ["ledger_entries"])
         conn.execute(text("UPDATE ledger_entries SET actor = 'forger', entry_hash = :h "
                           "WHERE id = :id"), {"h": new_hash, "id": e3.id})
         with Session(bind=conn) as s:
