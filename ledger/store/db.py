@@ -294,6 +294,33 @@ def _backup_sqlite(engine: Engine) -> Path | None:
     return backup
 
 
+@contextlib.contextmanager
+def _migration_connection(engine: Engine) -> Iterator[Connection]:
+    """A connection in a transaction for running migrations.
+
+    On SQLite, foreign keys are switched off for it (they can only be switched outside a
+    transaction): a migration that re-creates a table others refer to (Alembic's batch mode)
+    drops the old one first, which SQLite would count as violating every reference to it
+    until the end. ``PRAGMA foreign_key_check`` runs before the commit instead, so a
+    migration still cannot leave a dangling reference behind.
+    """
+    with engine.connect() as conn:
+        sqlite = conn.dialect.name == "sqlite"
+        if sqlite:
+            conn.connection.driver_connection.execute("PRAGMA foreign_keys = OFF")
+        try:
+            with conn.begin():
+                yield conn
+                if sqlite:
+                    bad = conn.exec_driver_sql("PRAGMA foreign_key_check").first()
+                    if bad is not None:
+                        raise StoredDataError(f"after the migration, table {bad[0]} row "
+                                              f"{bad[1]} refers to a missing row of {bad[2]}")
+        finally:
+            if sqlite:
+                conn.connection.driver_connection.execute("PRAGMA foreign_keys = ON")
+
+
 def upgrade(engine: Engine, revision: str = "head") -> tuple[str | None, str, Path | None]:
     """Bring the schema to ``revision``. Returns (from, to, backup file or None).
 
@@ -308,7 +335,7 @@ def upgrade(engine: Engine, revision: str = "head") -> tuple[str | None, str, Pa
     backup = None
     if before is not None and before != target:
         backup = _backup_sqlite(engine)
-    with engine.begin() as conn:
+    with _migration_connection(engine) as conn:
         command.upgrade(alembic_config(conn), revision)
     return before, target, backup
 
@@ -317,7 +344,7 @@ def downgrade(engine: Engine, revision: str = "base") -> None:
     """Take the schema down to ``revision`` (tests and emergencies)."""
     from alembic import command
 
-    with engine.begin() as conn:
+    with _migration_connection(engine) as conn:
         command.downgrade(alembic_config(conn), revision)
 
 

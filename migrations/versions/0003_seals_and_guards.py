@@ -103,11 +103,7 @@ def _seal_existing(conn) -> None:
 
 
 def upgrade() -> None:
-    conn = op.get_bind()
-    if conn.dialect.name == "sqlite":
-        # Re-creating a table that others refer to (SQLite batch mode) drops it first; the
-        # references are whole again by the end of the transaction.
-        conn.exec_driver_sql("PRAGMA defer_foreign_keys = ON")
+    conn = op.get_bind()  # (on SQLite with foreign keys off: ledger.store.db)
     for table, cols in _NEW.items():
         for col in cols:
             op.add_column(table, sa.Column(col, sa.String(length=64), nullable=True))
@@ -138,8 +134,6 @@ def upgrade() -> None:
 def downgrade() -> None:
     conn = op.get_bind()
     guards.drop(conn)
-    if conn.dialect.name == "sqlite":
-        conn.exec_driver_sql("PRAGMA defer_foreign_keys = ON")
     with op.batch_alter_table("loading_sheets", schema=None) as batch_op:
         batch_op.drop_constraint(op.f("uq_loading_sheets_vehicle_id_prev_hash"), type_="unique")
     # Only the version in force of each configuration fits the old schema.
