@@ -144,7 +144,9 @@ def _prepare_database(db_url: str | None, out: Path) -> str:
         finally:
             engine.dispose()
         return db_url
-    out.mkdir(parents=True, exist_ok=True)
+    from ledger.files import make_private_folder
+
+    make_private_folder(out)
     path = out / DEMO_DB_NAME
     for leftover in (path, path.with_name(path.name + "-wal"), path.with_name(path.name + "-shm")):
         leftover.unlink(missing_ok=True)
@@ -159,9 +161,10 @@ def demo(ctx: typer.Context,
     from typer.main import get_command
 
     from ledger.cli import app
+    from ledger.files import make_private_folder
 
     db_url = _prepare_database(common.state(ctx).db_url or _env_db(), out)
-    out.mkdir(parents=True, exist_ok=True)
+    make_private_folder(out)  # 0700 when new; an existing folder keeps its mode
     fleet = demo_fleet_dir()
     command = get_command(app)
     con = common.console()

@@ -171,7 +171,7 @@ def export(ctx: typer.Context, registration: str = REG_ARG,
            output: Path = typer.Option(None, "-o", "--output", metavar="FILE",
                                        help="Write to FILE (default: standard output).")) -> None:
     """Export a vehicle's whole ledger, exactly (values, dates and hashes)."""
-    from ledger.files import check_output_path, write_output_text
+    from ledger.files import check_output_path, write_output
     from ledger.store.db import session_scope
     from ledger.store.transfer import export_history
 
@@ -182,7 +182,7 @@ def export(ctx: typer.Context, registration: str = REG_ARG,
     if output is None:
         typer.echo(text, nl=False)
     else:
-        write_output_text(output, text, "--output")
+        write_output(output, text, "--output")
         typer.echo(f"Wrote the ledger of {registration} to {output} ({fmt}).", err=True)
 
 

@@ -41,6 +41,8 @@ import io
 import math
 from pathlib import Path
 
+from ledger.files import write_output
+
 __all__ = ["CSV_LAYOUTS", "csv_quantities", "inertia_csv", "write_inertia_csv",
            "render_inertia", "inertia_text"]
 
@@ -141,17 +143,9 @@ def inertia_csv(doc: dict, layout: str = "long") -> str:
 
 
 def write_inertia_csv(doc: dict, path: str | Path, layout: str = "long") -> Path:
-    """Write :func:`inertia_csv` to ``path`` (UTF-8); returns the path."""
-    text = inertia_csv(doc, layout)
-    p = Path(path)
-    try:
-        p.write_text(text, encoding="utf-8")
-    except OSError as exc:
-        from ledger.errors import InputError
-
-        raise InputError("--csv", str(p), f"a file that can be written ({exc.strerror})") \
-            from None
-    return p
+    """Write :func:`inertia_csv` to ``path`` (UTF-8, mode 0600, replaced in one step; see
+    :mod:`ledger.files`); returns the path."""
+    return write_output(path, inertia_csv(doc, layout), "--csv")
 
 
 # --- terminal -------------------------------------------------------------------------------

@@ -19,7 +19,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import BinaryIO
 
+from ledger.files import replacing
 from ledger.report.caution import CAUTION_SHORT
 from ledger.report.sheet_text import DASH, ChartData, SheetView, TableData
 
@@ -442,17 +444,14 @@ def _render(doc: dict, path, fmt: str, paper: str) -> Path:
     path = Path(path)
     rc = {"svg.fonttype": "none", "svg.hashsalt": "wbledger-sheet", "pdf.fonttype": 42,
           "text.parse_math": False, "font.family": _SANS, "axes.unicode_minus": True}
-    try:
-        _write(doc, view, path, fmt, page_w, page_h, rc)
-    except OSError as exc:
-        from ledger.files import output_error
-
-        raise output_error(path, f"--{fmt}", exc) from None
+    # A new 0600 file renamed over the target when complete: a kill mid-way leaves no half PDF.
+    with replacing(path, f"--{fmt}") as out:
+        _write(doc, view, out, fmt, page_w, page_h, rc)
     return path
 
 
-def _write(doc: dict, view: "SheetView", path: Path, fmt: str, page_w: float, page_h: float,
-           rc: dict) -> None:
+def _write(doc: dict, view: "SheetView", out: BinaryIO, fmt: str, page_w: float,
+           page_h: float, rc: dict) -> None:
     import matplotlib
 
     from matplotlib.backends.backend_pdf import PdfPages
@@ -465,7 +464,7 @@ def _write(doc: dict, view: "SheetView", path: Path, fmt: str, page_w: float, pa
             meta = {"Title": f"Loading sheet {(doc.get('vehicle') or {}).get('registration')}",
                     "Creator": "wbledger", "Producer": "wbledger (matplotlib)",
                     "CreationDate": None, "ModDate": None}
-            with PdfPages(path, metadata=meta) as pdf:
+            with PdfPages(out, metadata=meta) as pdf:
                 for n in range(pages):
                     fig = Figure(figsize=(page_w, page_h))
                     _draw(fig, [o for o in lay.ops if o.page == n], page_w, page_h)
@@ -477,7 +476,7 @@ def _write(doc: dict, view: "SheetView", path: Path, fmt: str, page_w: float, pa
             fig = Figure(figsize=(page_w, height))
             _draw(fig, lay.ops, page_w, height)
             _footer(fig, view, page_w, height, "")
-            fig.savefig(path, format="svg", metadata={"Date": None, "Creator": "wbledger"})
+            fig.savefig(out, format="svg", metadata={"Date": None, "Creator": "wbledger"})
 
 
 def _footer(fig, view: SheetView, page_w: float, page_h: float, page_text: str) -> None:
@@ -514,7 +513,9 @@ def write_pdf(doc: dict, path, *, paper: str = "A4") -> Path:
     Returns
     -------
     pathlib.Path
-        ``path``. The PDF has no creation date, so the same document gives the same bytes.
+        ``path``. The PDF has no creation date, so the same document gives the same bytes. It is
+        written as :mod:`ledger.files` writes every output: mode 0600, replaced in one step, and
+        a symbolic link or a file that is not a regular one is refused.
     """
     return _render(doc, path, "pdf", paper)
 

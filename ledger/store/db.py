@@ -26,6 +26,7 @@ from sqlalchemy.engine import Connection, make_url
 from sqlalchemy.orm import Session, sessionmaker
 
 from ledger.errors import DatabaseOpenError, InputError, LedgerError, SchemaError, StoredDataError
+from ledger.files import create_private_file, make_private_folder, replacing
 
 __all__ = [
     "ENV_VAR",
@@ -102,6 +103,22 @@ def _sqlite_pragmas(dbapi_connection, _record) -> None:
     cur.close()
 
 
+def _sqlite_private_file(_dialect, _record, cargs, cparams) -> None:
+    """Before SQLite opens a file, create it 0600 if it does not exist yet.
+
+    SQLite would create it with the umask's mode (often 0644); its ``-wal`` and ``-shm`` files
+    copy the database file's mode, so creating the file private keeps all three private. A file
+    that exists keeps its owner's mode. If the file cannot be created here, SQLite tries and its
+    error is the one reported.
+    """
+    if cparams.get("uri") or not cargs or not isinstance(cargs[0], str):
+        return
+    if cargs[0] in ("", ":memory:"):
+        return
+    with contextlib.suppress(OSError):
+        create_private_file(cargs[0])
+
+
 def _sqlite_begin(conn: Connection) -> None:
     conn.exec_driver_sql("BEGIN IMMEDIATE")
 
@@ -109,7 +126,8 @@ def _sqlite_begin(conn: Connection) -> None:
 def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
     """Create an engine for ``url`` (see :func:`resolve_url`) with the ledger's settings.
 
-    For a SQLite file the parent directory is created.
+    For the default SQLite file the parent directory is created (0700). A SQLite file that
+    does not exist yet is created 0600 when it is first opened (see ``_sqlite_private_file``).
     """
     from sqlalchemy.exc import NoSuchModuleError
 
@@ -124,8 +142,8 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
         database = parsed.database
         if database and database != ":memory:" and not database.startswith("file:"):
             folder = Path(database).expanduser().parent
-            if chosen is None:  # the default file: its folder is ours to create
-                folder.mkdir(parents=True, exist_ok=True)
+            if chosen is None:  # the default file: its folder is ours to create, 0700
+                make_private_folder(folder)
             elif not folder.is_dir():
                 # A mistyped folder must not quietly grow a new, empty ledger somewhere else.
                 raise DatabaseOpenError("--db", url, f"a SQLite file in an existing folder; "
@@ -134,6 +152,7 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
         engine = create_engine(
             parsed, echo=echo, connect_args={"timeout": BUSY_TIMEOUT_MS / 1000}
         )
+        event.listen(engine, "do_connect", _sqlite_private_file)
         event.listen(engine, "connect", _sqlite_pragmas)
         event.listen(engine, "begin", _sqlite_begin)
         event.listen(engine, "handle_error", _refuse_unopenable(url))
@@ -283,12 +302,16 @@ def _backup_sqlite(engine: Engine) -> Path | None:
     # The SQLite online-backup API copies a consistent image even with a WAL file beside it.
     import sqlite3
 
+    # Written as every output is (ledger.files): a new 0600 file renamed into place when whole.
     src = sqlite3.connect(path)
     try:
-        dst = sqlite3.connect(backup)
-        with dst:
-            src.backup(dst)
-        dst.close()
+        with replacing(backup, "backup") as fh:
+            dst = sqlite3.connect(fh.name)
+            try:
+                with dst:
+                    src.backup(dst)
+            finally:
+                dst.close()
     finally:
         src.close()
     return backup
