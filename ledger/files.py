@@ -39,6 +39,7 @@ __all__ = [
     "make_private_folder",
     "output_error",
     "replacing",
+    "write_new",
     "write_output",
 ]
 
@@ -215,6 +216,28 @@ def write_output(path: str | os.PathLike, data: bytes | str, field: str) -> Path
     with replacing(path, field) as fh:
         fh.write(payload)
     return Path(path)
+
+
+def write_new(path: str | os.PathLike, data: bytes, field: str) -> Path:
+    """Write ``data`` to a *new* file ``path`` with mode 0600; an existing file (or link) is
+    never replaced (keys). An ``OSError`` becomes an :class:`InputError` naming ``field``."""
+    p = Path(path)
+    try:
+        fd = _private_opener(os.fspath(p), os.O_WRONLY | os.O_CREAT | os.O_EXCL | _O_BINARY)
+    except FileExistsError:
+        raise InputError(field, str(p), "a new file; it exists already and is never "
+                         "overwritten") from None
+    except OSError as exc:
+        raise output_error(p, field, exc) from None
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(data)
+            fh.flush()
+            os.fsync(fh.fileno())
+    except BaseException:
+        p.unlink(missing_ok=True)
+        raise
+    return p
 
 
 def create_private_file(path: str | os.PathLike) -> bool:

@@ -84,7 +84,7 @@ def checkpoint(ctx: typer.Context,
     `wbledger verify --against FILE` catches a rewrite, truncation or forged append since."""
     import json
 
-    from ledger.files import check_output_path, write_output_text
+    from ledger.files import check_output_path, write_output
     from ledger.store import checkpoint as cp
     from ledger.store.db import session_scope
 
@@ -94,7 +94,7 @@ def checkpoint(ctx: typer.Context,
         doc = cp.take(session, database=engine.url.render_as_string(hide_password=True))
     if sign is not None:
         doc = cp.sign(doc, sign)
-    write_output_text(output, json.dumps(doc, indent=1, ensure_ascii=False) + "\n", "FILE")
+    write_output(output, json.dumps(doc, indent=1, ensure_ascii=False) + "\n", "FILE")
     summary = {"file": str(output), "created_at": doc["created_at"], "digest": doc["digest"],
                "types": len(doc["types"]), "vehicles": len(doc["vehicles"]),
                "configurations": len(doc["configurations"]),
@@ -117,8 +117,19 @@ def checkpoint_key(keyfile: Path = typer.Argument(..., metavar="KEYFILE",
                                                        "KEYFILE.pub).")) -> None:
     """Make a new Ed25519 key pair for signing checkpoints (the private key is created 0600
     and never overwrites a file)."""
-    from ledger.store.checkpoint import new_key
+    from ledger.errors import InputError
 
-    private, public = new_key(keyfile)
+    from ledger.files import check_output_path, write_new
+    from ledger.store.checkpoint import new_key_pair
+
+    public = keyfile.with_name(keyfile.name + ".pub")
+    for path in (keyfile, public):
+        check_output_path(path, "KEYFILE")
+        if path.exists() or path.is_symlink():
+            raise InputError("KEYFILE", str(path), "a new file; it exists already and a key "
+                             "is never overwritten")
+    private_pem, public_pem = new_key_pair()
+    private = write_new(keyfile, private_pem, "KEYFILE")
+    write_new(public, public_pem, "KEYFILE")
     typer.echo(f"Wrote the private key {private} (keep it secret; only its holder can sign) "
                f"and the public key {public} (give it to whoever checks).")

@@ -31,7 +31,7 @@ PAPER_SIZES = {"A4": (8.27, 11.69), "Letter": (8.5, 11.0)}
 """Portrait page sizes in inches."""
 
 _MARGIN = 0.6  # in
-_FOOTER = 0.66  # in kept free at the bottom of each page
+_FOOTER = 0.76  # in kept free at the bottom of each page
 _SANS = "DejaVu Sans"
 _INK = "#1a1a1a"
 _GREY = "#555555"
@@ -480,7 +480,7 @@ def _write(doc: dict, view: "SheetView", out: BinaryIO, fmt: str, page_w: float,
 
 
 def _footer(fig, view: SheetView, page_w: float, page_h: float, page_text: str) -> None:
-    y = page_h - _MARGIN - 0.39
+    y = page_h - _MARGIN - 0.49
     fig.add_artist(_line(fig, [_MARGIN / page_w, 1 - _MARGIN / page_w],
                          [1 - y / page_h, 1 - y / page_h], 0.5, _RULE))
     fig.text(_MARGIN / page_w, 1 - (y + 0.14) / page_h, _footer_lines(view), fontsize=6.5,
@@ -489,12 +489,14 @@ def _footer(fig, view: SheetView, page_w: float, page_h: float, page_text: str) 
         fig.text(1 - _MARGIN / page_w, 1 - (y + 0.14) / page_h, page_text, fontsize=6.5,
                  color=_GREY, ha="right", family=_SANS, parse_math=False)
     # The hashes that anchor the paper copy to the ledger (`wbledger verify --expect HASH`).
-    fig.text(_MARGIN / page_w, 1 - (y + 0.25) / page_h,
-             "   ".join(f"{label.lower()} {value}" for label, value in view.anchors()),
-             fontsize=5.2, color=_GREY, family="monospace", parse_math=False)
+    anchors = [f"{label.lower()} {value}" for label, value in view.anchors()]
+    for k in range(0, len(anchors), 2):
+        fig.text(_MARGIN / page_w, 1 - (y + 0.25 + k * 0.05) / page_h,
+                 "   ".join(anchors[k:k + 2]), fontsize=5.2, color=_GREY, family="monospace",
+                 parse_math=False)
     width = page_w - 2 * _MARGIN
     for k, line in enumerate(_Measure().wrap(CAUTION_SHORT, 6.5, width, "bold")):
-        fig.text(_MARGIN / page_w, 1 - (y + 0.38 + k * 0.11) / page_h, line, fontsize=6.5,
+        fig.text(_MARGIN / page_w, 1 - (y + 0.48 + k * 0.11) / page_h, line, fontsize=6.5,
                  color=_CAUTION_EDGE, fontweight="bold", family=_SANS, parse_math=False)
 
 

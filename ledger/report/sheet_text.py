@@ -251,11 +251,14 @@ class SheetView:
         return ["Prepared by", "Checked by", third]
 
     def anchors(self) -> list[tuple[str, str]]:
-        """The hashes a paper copy keeps: the ledger head the sheet was built on and the
-        sheet's own hash (a saved sheet), for ``wbledger verify --expect HASH``."""
+        """The hashes a paper copy keeps: the content hash of the type data it was checked
+        against (as ``type import`` printed it), the ledger head it was built on, and the
+        sheet's own hash (a saved sheet) — the last two for ``wbledger verify --expect``."""
         ew = self.doc.get("empty_weight") or {}
         sheet = self.doc.get("sheet") or {}
-        return [("Ledger head", ew.get("entry_hash") or DASH),
+        vehicle = self.doc.get("vehicle") or {}
+        return [("Type data", vehicle.get("type_sha256") or DASH),
+                ("Ledger head", ew.get("entry_hash") or DASH),
                 ("Sheet hash", sheet.get("sheet_hash") or "none: not saved (a draft)")]
 
     def heading(self) -> list[tuple[str, str]]:
@@ -868,12 +871,8 @@ def render_sheet(doc: dict, console: Console | None = None, width: int = 80) -> 
               border_style="green" if view.ok else "red", width=w))
     out(Panel(Text(view.caution, style="bold"), box=box.HEAVY, border_style="yellow",
               width=w))
-    anchors = Table.grid(padding=(0, 1))
-    anchors.add_column(no_wrap=True)
-    anchors.add_column(overflow="fold")
     for label, value in view.anchors():
-        anchors.add_row(label, value)
-    out(anchors)
+        out(Text(f"{label:<11} {value}"), overflow="fold")
 
 
 def _hanging(mark: str, text: str, width: int) -> Table:

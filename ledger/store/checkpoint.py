@@ -57,7 +57,7 @@ __all__ = [
     "read",
     "Comparison",
     "compare_with",
-    "new_key",
+    "new_key_pair",
 ]
 
 FORMAT = "wbledger.checkpoint/1"
@@ -180,30 +180,15 @@ def sign(doc: dict, key_path: str | os.PathLike) -> dict:
                                  "value": signature.hex()}}
 
 
-def new_key(path: str | os.PathLike) -> tuple[Path, Path]:
-    """Write a new Ed25519 private key to ``path`` (0600, never over an existing file) and its
-    public key beside it as ``path.pub``. Returns both paths."""
+def new_key_pair() -> tuple[bytes, bytes]:
+    """A new Ed25519 key pair as PEM: (private key, unencrypted PKCS#8; public key)."""
     serialization, ed25519 = _crypto()
-    p = Path(path)
-    pub = p.with_name(p.name + ".pub")
-    for target, field in ((p, "KEYFILE"), (pub, "KEYFILE")):
-        if target.exists() or target.is_symlink():
-            raise InputError(field, str(target), "a new file; it exists already (a key is "
-                             "never overwritten)")
     key = ed25519.Ed25519PrivateKey.generate()
     private = key.private_bytes(serialization.Encoding.PEM, serialization.PrivateFormat.PKCS8,
                                 serialization.NoEncryption())
     public = key.public_key().public_bytes(serialization.Encoding.PEM,
                                            serialization.PublicFormat.SubjectPublicKeyInfo)
-    for target, data in ((p, private), (pub, public)):
-        try:
-            fd = os.open(target, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
-        except OSError as exc:
-            raise InputError("KEYFILE", str(target), f"a file that can be created "
-                             f"({exc.strerror})") from None
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-    return p, pub
+    return private, public
 
 
 def read(path: str | os.PathLike) -> dict:
