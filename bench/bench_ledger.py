@@ -29,6 +29,7 @@ All files live in a temporary directory on the same disk. The data are invented.
 
 from __future__ import annotations
 
+import dataclasses
 import datetime as dt
 import math
 import sqlite3
@@ -36,6 +37,8 @@ import sys
 import tempfile
 import time
 from pathlib import Path
+
+from sqlalchemy import text as text_
 
 if __package__ in (None, ""):  # run as a script: make the checkout importable
     sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
@@ -256,6 +259,68 @@ def bench_fleet_view(folder: Path, vehicles: int = 1000, per_vehicle: int = 100)
     return best_ours / best_raw
 
 
+RAW_VERIFY_SQL = ("SELECT * FROM ledger_entries ORDER BY vehicle_id, seq",
+                  "SELECT * FROM loading_sheets ORDER BY vehicle_id, id")
+
+
+def _add_sheets(eng, regs: list[str], per_vehicle: int) -> None:
+    """``per_vehicle`` saved sheets of an (empty) plan for each of ``regs``, through the
+    library's save path (content hash, links, seal, chain)."""
+    from ledger.store.db import session_scope
+    from ledger.store.sheets import prepare_sheet, save_prepared
+
+    with session_scope(eng) as s:
+        prepared = prepare_sheet(s, {"plan_format": 1, "vehicle": regs[0]}, source="bench",
+                                 preparer="bench", with_fixes=False)
+        for reg in regs:
+            vid = s.execute(text_("SELECT id FROM vehicles WHERE registration = :r"),
+                            {"r": reg}).scalar_one()
+            eid = s.execute(text_("SELECT id FROM ledger_entries WHERE vehicle_id = :v "
+                                  "ORDER BY seq DESC LIMIT 1"), {"v": vid}).scalar_one()
+            for _ in range(per_vehicle):
+                save_prepared(s, dataclasses.replace(prepared, registration=reg,
+                                                     vehicle_id=vid, entry_id=eid))
+
+
+def bench_verify(folder: Path, vehicles: int = 1000, per_vehicle: int = 100,
+                 sheets: int = 10_000) -> float:
+    """``wbledger verify`` of the whole database ÷ reading the same rows raw."""
+    from ledger.store.db import session_scope
+    from ledger.store.evidence import verify_fleet
+    from ledger.store.transfer import import_entries
+
+    regs = [f"BX-{5000 + i}" for i in range(vehicles)]
+    eng = _fresh(folder, "verify.sqlite3", regs)
+    recs = records(per_vehicle)
+    with session_scope(eng) as s:
+        for reg in regs:
+            import_entries(s, reg, recs, source="bench")
+    _add_sheets(eng, regs, sheets // vehicles)
+    con = _raw(folder / "verify.sqlite3")
+
+    def ours():
+        with session_scope(eng) as s:
+            return verify_fleet(s)
+
+    def raw():
+        return [con.execute(sql).fetchall() for sql in RAW_VERIFY_SQL]
+
+    report, (entries, saved) = ours(), raw()
+    assert report.ok and len(entries) == vehicles * per_vehicle and len(saved) == sheets
+    assert sum(v.sheets for v in report.vehicles) == sheets
+    best_ours = best_raw = math.inf
+    for _ in range(3):
+        t0 = time.perf_counter()
+        ours()
+        t1 = time.perf_counter()
+        raw()
+        t2 = time.perf_counter()
+        best_ours, best_raw = min(best_ours, t1 - t0), min(best_raw, t2 - t1)
+    con.close()
+    eng.dispose()
+    return best_ours / best_raw
+
+
 def main() -> None:
     with tempfile.TemporaryDirectory(prefix="wbledger-bench-", dir=None) as tmp:
         folder = Path(tmp)
@@ -265,6 +330,8 @@ def main() -> None:
               "(target 0.3)", flush=True)
         print(f"bench ledger_fleet_view_1000x100: ratio {bench_fleet_view(folder):.2f} "
               "(target 1.5)", flush=True)
+        print(f"bench verify_1000x100_10k_sheets: ratio {bench_verify(folder):.2f} "
+              "(target 3)", flush=True)
 
 
 if __name__ == "__main__":

@@ -131,6 +131,8 @@ def _s(value) -> str:
 
 
 def _f(value) -> str:
+    if value.__class__ is float and value and value - value == 0.0:
+        return repr(value)  # the common case: finite, not zero (what json.dumps writes)
     if value is None:
         return "null"
     if value == 0.0:  # also -0.0, written 0.0 (SQLite does not keep the sign of a zero)
@@ -158,22 +160,30 @@ def canonical_content(entry: Mapping[str, Any], registration: str) -> str:
     ensure_ascii=False, allow_nan=False)`` of the object described above; it is assembled
     key by key, in sorted order, because that is several times faster for bulk imports.
     """
-    e = entry
+    return _content_of_row(tuple(entry[k] for k in HASHED_COLUMNS), _jstring(registration))
+
+
+def _content_of_row(r: Sequence[Any], vehicle_json: str) -> str:
+    """:func:`canonical_content` of a row of the :data:`HASHED_COLUMNS` values, in order;
+    ``vehicle_json`` is the registration as a JSON string (the same for a whole chain)."""
+    (seq, kind, entry_date, recorded_at, actor, reason, reference, item, imk, ixm, iym, izm,
+     dm, dmx, dmy, dmz, em, emx, emy, emz, zk, base, reverses, detail, prev) = r[:25]
     return (
-        f'{{"actor":{_jstring(e["actor"])},"baseline_seq":{int(e["baseline_seq"])},'
-        f'"delta_mass_kg":{_f(e["delta_mass_kg"])},"delta_mx_kgm":{_f(e["delta_mx_kgm"])},'
-        f'"delta_my_kgm":{_f(e["delta_my_kgm"])},"delta_mz_kgm":{_f(e["delta_mz_kgm"])},'
-        f'"detail":{_jstring(e["detail_json"])},"empty_mass_kg":{_f(e["empty_mass_kg"])},'
-        f'"empty_mx_kgm":{_f(e["empty_mx_kgm"])},"empty_my_kgm":{_f(e["empty_my_kgm"])},'
-        f'"empty_mz_kgm":{_f(e["empty_mz_kgm"])},"entry_date":{_date(e["entry_date"])},'
-        f'"item":{_s(e["item"])},"item_mass_kg":{_f(e["item_mass_kg"])},'
-        f'"item_x_m":{_f(e["item_x_m"])},"item_y_m":{_f(e["item_y_m"])},'
-        f'"item_z_m":{_f(e["item_z_m"])},"kind":{_jstring(e["kind"])},'
-        f'"prev_hash":{_jstring(e["prev_hash"])},"reason":{_s(e["reason"])},'
-        f'"recorded_at":{_jstring(utc_text(e["recorded_at"]))},'
-        f'"reference":{_s(e["reference"])},"reverses_seq":{_i(e["reverses_seq"])},'
-        f'"seq":{int(e["seq"])},"v":{CHAIN_VERSION},"vehicle":{_jstring(registration)},'
-        f'"z_known":{int(e["z_known"])}}}'
+        f'{{"actor":{_jstring(actor)},"baseline_seq":{int(base)},'
+        f'"delta_mass_kg":{_f(dm)},"delta_mx_kgm":{_f(dmx)},'
+        f'"delta_my_kgm":{_f(dmy)},"delta_mz_kgm":{_f(dmz)},'
+        f'"detail":{_jstring(detail)},"empty_mass_kg":{_f(em)},'
+        f'"empty_mx_kgm":{_f(emx)},"empty_my_kgm":{_f(emy)},'
+        f'"empty_mz_kgm":{_f(emz)},"entry_date":{_date(entry_date)},'
+        f'"item":{"null" if item is None else _jstring(item)},"item_mass_kg":{_f(imk)},'
+        f'"item_x_m":{_f(ixm)},"item_y_m":{_f(iym)},'
+        f'"item_z_m":{_f(izm)},"kind":{_jstring(kind)},'
+        f'"prev_hash":{_jstring(prev)},"reason":{"null" if reason is None else _jstring(reason)},'
+        f'"recorded_at":"{utc_text(recorded_at)}",'
+        f'"reference":{"null" if reference is None else _jstring(reference)},'
+        f'"reverses_seq":{"null" if reverses is None else int(reverses)},'
+        f'"seq":{int(seq)},"v":{CHAIN_VERSION},"vehicle":{vehicle_json},'
+        f'"z_known":{int(zk)}}}'
     )
 
 
@@ -236,32 +246,40 @@ class ChainReport:
                 "bad_seq": self.bad_seq, "problem": self.problem}
 
 
-def _state_follows(prev: Mapping[str, Any] | None, e: Mapping[str, Any]) -> str | None:
-    """Why the running totals of ``e`` do not follow from ``prev`` (None if they do).
+_I_SEQ, _I_KIND, _I_RECORDED, _I_ZK, _I_BASE, _I_PREV = (
+    HASHED_COLUMNS.index(c) for c in ("seq", "kind", "recorded_at", "z_known", "baseline_seq",
+                                      "prev_hash"))
+_I_DELTA = HASHED_COLUMNS.index("delta_mass_kg")  # then mx, my, mz
+_I_EMPTY = HASHED_COLUMNS.index("empty_mass_kg")  # then mx, my, mz
+_STATE_NAMES = ("mass_kg", "mx_kgm", "my_kgm", "mz_kgm")
+
+
+def _totals_follow(prev: Sequence[Any] | None, r: Sequence[Any]) -> str | None:
+    """Why the running totals of row ``r`` do not follow from row ``prev`` (None if they do).
 
     The checks repeat the arithmetic the ledger does when it appends, so they are exact.
     """
-    kind = e["kind"]
-    seq = int(e["seq"])
+    kind = r[_I_KIND]
+    seq = int(r[_I_SEQ])
     if prev is None:
         if kind != "weighing":
             return "the first entry of a vehicle must be a weighing"
-        pm = pmx = pmy = pmz = 0.0
+        before = (0.0, 0.0, 0.0, 0.0)
     else:
-        pm, pmx, pmy, pmz = (prev["empty_mass_kg"], prev["empty_mx_kgm"], prev["empty_my_kgm"],
-                             prev["empty_mz_kgm"])
-    pairs = (("mass_kg", pm), ("mx_kgm", pmx), ("my_kgm", pmy), ("mz_kgm", pmz))
+        before = prev[_I_EMPTY:_I_EMPTY + 4]
+    delta = r[_I_DELTA:_I_DELTA + 4]
+    after = r[_I_EMPTY:_I_EMPTY + 4]
     if kind in ABSOLUTE_KINDS:
-        for name, p in pairs:
-            if e["delta_" + name] != e["empty_" + name] - p:
+        for name, p, d, a in zip(_STATE_NAMES, before, delta, after):
+            if d != a - p:
                 return f"delta_{name} is not empty_{name} minus that of the previous entry"
     else:
-        for name, p in pairs:
-            if e["empty_" + name] != p + e["delta_" + name]:
+        for name, p, d, a in zip(_STATE_NAMES, before, delta, after):
+            if a != p + d:
                 return f"empty_{name} is not the previous entry's plus delta_{name}"
-    expected_base = seq if kind == "weighing" else (int(prev["baseline_seq"]) if prev else seq)
-    if int(e["baseline_seq"]) != expected_base:
-        return f"baseline_seq is {e['baseline_seq']}, expected {expected_base}"
+    expected_base = seq if kind == "weighing" else (int(prev[_I_BASE]) if prev else seq)
+    if int(r[_I_BASE]) != expected_base:
+        return f"baseline_seq is {r[_I_BASE]}, expected {expected_base}"
     return None
 
 
@@ -275,22 +293,22 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
     and its running totals follow from the previous entry. ``expect_head``, if given, is a head
     hash recorded earlier: the chain must still contain it (catches deleted newest entries).
     """
-    names = HASHED_COLUMNS
-    n_cols = len(names)
-    prev: dict | None = None
+    n_cols = len(HASHED_COLUMNS)
+    vehicle_json = _jstring(registration)
+    sha256 = hashlib.sha256
+    prev: Sequence[Any] | None = None
     prev_hash = GENESIS_HASH
     count = 0
     seen_expected = expect_head is None
     for row in rows:
-        e = dict(zip(names, row[:n_cols]))
         stored = row[n_cols]
         expected_seq = count + 1
         count += 1
         try:
-            seq = int(e["seq"])
+            seq = int(row[_I_SEQ])
         except (ValueError, TypeError):
             return ChainReport(registration, count, None, None, False, expected_seq,
-                               f"entry {expected_seq}: its seq {e['seq']!r} is not a number")
+                               f"entry {expected_seq}: its seq {row[_I_SEQ]!r} is not a number")
 
         def bad(problem: str, at: int = seq) -> ChainReport:
             return ChainReport(registration, count, None, None, False, at, problem)
@@ -301,27 +319,29 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
                            else f"entries {expected_seq} to {seq - 1} are missing")
                 return bad(f"entry {seq} follows entry {expected_seq - 1}: {missing}")
             return bad(f"entry {seq} is out of order (expected entry {expected_seq})")
-        if e["prev_hash"] != prev_hash:
+        if row[_I_PREV] != prev_hash:
             what = "the genesis hash" if prev is None else f"the hash of entry {seq - 1}"
             return bad(f"entry {seq}: prev_hash does not match {what}")
         try:
-            if isinstance(e["recorded_at"], str):  # SQLite text, read raw by _select
-                e["recorded_at"] = dt.datetime.fromisoformat(e["recorded_at"])
-            actual = content_hash(e, registration)
+            recorded = row[_I_RECORDED]
+            if recorded.__class__ is str:  # SQLite text, read raw by _select
+                row = list(row)
+                row[_I_RECORDED] = dt.datetime.fromisoformat(recorded)
+            actual = sha256(_content_of_row(row, vehicle_json).encode("utf-8")).hexdigest()
         except (ValueError, TypeError, AttributeError) as exc:
             return bad(f"entry {seq}: its content cannot be read ({exc})")
         if actual != stored:
             return bad(f"entry {seq}: its content does not match its hash "
                        "(a field was changed after it was written)")
         try:
-            why = _state_follows(prev, e)
+            why = _totals_follow(prev, row)
         except (ValueError, TypeError) as exc:
             why = f"a stored value cannot be read ({exc})"
         if why:
             return bad(f"entry {seq}: running totals do not follow: {why}")
         if not seen_expected and stored == expect_head:
             seen_expected = True
-        prev, prev_hash = e, stored
+        prev, prev_hash = row, stored
     if not seen_expected:
         return ChainReport(registration, count, count or None, prev_hash if count else None,
                            False, count + 1,

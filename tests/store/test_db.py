@@ -53,6 +53,27 @@ def test_models_and_migrations_agree(engine):
         command.check(alembic_config(conn))
 
 
+def test_a_database_at_head_has_every_guard_and_they_go_down_and_up(db_url):
+    from ledger.store import guards
+
+    eng = make_engine(db_url)
+    try:
+        upgrade(eng)
+        with eng.connect() as conn:
+            assert guards.missing(conn) == []
+        downgrade(eng, "0002")  # the guards go with migration 0003 ...
+        with eng.connect() as conn:
+            assert guards.missing(conn) == list(guards.GUARDED_TABLES)
+        upgrade(eng)  # ... and come back with it
+        with eng.connect() as conn:
+            assert guards.missing(conn) == []
+            guards.drop(conn, ["vehicles"])
+            assert guards.missing(conn) == ["vehicles"]
+            conn.rollback()
+    finally:
+        eng.dispose()
+
+
 def test_uninitialised_database_is_refused(sqlite_url):
     eng = make_engine(sqlite_url)
     with pytest.raises(SchemaError) as err:
