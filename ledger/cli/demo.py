@@ -118,6 +118,9 @@ def _steps(fleet: Path, out: Path, today: dt.date) -> list[tuple[str, list[str]]
         ("", ["inertia", "KVA-D07", "--plan", str(plans / "kva-d07-survey.toml"),
               "--assume-z", "5 mm", "--csv", str(out / "kva-d07-inertia.csv")]),
         ("Prove that nobody rewrote the history.", ["verify"]),
+        ("Keep the heads of every chain outside the database; a later check against the file "
+         "catches a rewrite made since.", ["checkpoint", str(out / "checkpoint.json")]),
+        ("", ["verify", "--against", str(out / "checkpoint.json")]),
     ]
     return steps
 
@@ -186,6 +189,7 @@ def demo(ctx: typer.Context,
             con.print("[dim](exit code 1: out of limits, as this demo case intends)[/dim]")
     con.print()
     con.print(f"Files written in {out}/: kva-101-local.pdf, kva-t75-delivery.pdf, "
+              "checkpoint.json, "
               "kva-t75-inertia.csv, kva-d07-inertia.csv, and the demo database.", markup=False)
     con.print(f"Try it yourself: export WBLEDGER_DB={db_url} and run `wbledger --help`.",
               markup=False)

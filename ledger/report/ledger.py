@@ -319,7 +319,7 @@ def render_verify(doc: dict) -> None:
     if cp is not None:
         state = ("matches" if not cp["problems"]
                  else f"DOES NOT MATCH: {'; '.join(cp['problems'])}")
-        con.print(f"checkpoint {cp['file']} of {cp['created_at']}: {state}; signature "
+        con.print(f"checkpoint {cp['file']} of {cp['created_at']}: {state}; signature: "
                   f"{cp['signature']}", overflow="fold")
         added = "; ".join(cp["added"]) or "nothing"
         con.print(f"  added since: {added}", overflow="fold")

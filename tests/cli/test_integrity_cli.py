@@ -74,7 +74,7 @@ def test_checkpoint_signed_and_checked(ready, tmp_path):  # noqa: F811
         ("TS-101", 1, 1)]
     pub = tmp_path / "key.pub"
     out = _ok(cli("verify", "--against", tmp_path / "cp.json", "--public-key", pub))
-    assert "matches; signature checked" in " ".join(out.split())
+    assert "matches; signature: checked" in " ".join(out.split())
 
     # An entry added since is listed; --exact fails on it.
     _ok(cli("install", "TS-101", "lamp", "--mass", "2 lb", "--arm", "80 in", "--reason", "fit",
@@ -99,7 +99,7 @@ def test_checkpoint_signed_and_checked(ready, tmp_path):  # noqa: F811
     assert r.exit_code == 1
     assert "signature does not verify with that public key" in r.stderr
     r = cli("verify", "--against", tmp_path / "cp2.json")
-    assert r.exit_code == 0 and "signature not checked (give --public-key)" in " ".join(
+    assert r.exit_code == 0 and "signature: not checked (give --public-key)" in " ".join(
         r.stdout.split())
 
 
