@@ -100,7 +100,7 @@ def test_demo_database_sheets_and_exports_are_private(umask, tmp_path, monkeypat
     # SQLite may leave its -wal and -shm files beside the database; if so they count too.
     assert set(made) - {"demo.sqlite3-wal", "demo.sqlite3-shm"} == {
         "demo.sqlite3", "kva-101-local.pdf", "kva-t75-delivery.pdf", "kva-t75-inertia.csv",
-        "kva-d07-inertia.csv"}
+        "kva-d07-inertia.csv", "checkpoint.json"}
     assert set(made.values()) == {"0o600"}, made
     assert mode(out) == "0o700"
 
