@@ -25,7 +25,14 @@ from sqlalchemy import Engine, create_engine, event, inspect
 from sqlalchemy.engine import Connection, make_url
 from sqlalchemy.orm import Session, sessionmaker
 
-from ledger.errors import DatabaseOpenError, InputError, LedgerError, SchemaError, StoredDataError
+from ledger.errors import (
+    AccessRefusedError,
+    DatabaseOpenError,
+    InputError,
+    LedgerError,
+    SchemaError,
+    StoredDataError,
+)
 
 __all__ = [
     "ENV_VAR",
@@ -91,6 +98,20 @@ def _refuse_unopenable(url: str):
     return listener
 
 
+def _refuse_denied(url: str):
+    """A ``handle_error`` listener (PostgreSQL): a statement the server refuses to this user
+    (SQLSTATE 42501, insufficient_privilege: a privilege the user's role lacks, or one of the
+    append-only guards of :mod:`ledger.store.guards`) becomes one line naming the user."""
+    user = make_url(url).username
+
+    def listener(context) -> None:
+        exc = context.original_exception
+        if getattr(exc, "sqlstate", None) == "42501":
+            raise AccessRefusedError(_first_line(exc), user) from None
+
+    return listener
+
+
 def _sqlite_pragmas(dbapi_connection, _record) -> None:
     # Let SQLAlchemy's "begin" event issue BEGIN IMMEDIATE instead of pysqlite's deferred BEGIN.
     dbapi_connection.isolation_level = None
@@ -152,6 +173,7 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
         raise InputError("--db", shown, f"needs the database driver {exc.name!r}",
                          hint=hint) from None
     event.listen(engine, "handle_error", _refuse_unopenable(url))
+    event.listen(engine, "handle_error", _refuse_denied(url))
     return engine
 
 
