@@ -24,6 +24,7 @@ __all__ = [
     "ChainError",
     "CorrectionError",
     "DatabaseOpenError",
+    "AccessRefusedError",
 ]
 
 
@@ -165,3 +166,19 @@ class CorrectionError(InputError):
 
 class DatabaseOpenError(InputError):
     """The database named by ``--db`` or ``$WBLEDGER_DB`` cannot be opened (no server, no file)."""
+
+
+class AccessRefusedError(LedgerError):
+    """The database refused a statement to this user (PostgreSQL SQLSTATE 42501): a privilege
+    the user's role does not have, or an append-only guard."""
+
+    def __init__(self, reason: str, user: str | None = None) -> None:
+        self.reason = reason
+        self.user = user
+        super().__init__(reason)
+
+    def __str__(self) -> str:
+        who = f" to user {self.user!r}" if self.user else ""
+        return (f"the database refused this{who} ({self.reason}); each role of `wbledger db "
+                "roles` may do only its own part: ask the ledger's owner for the role that "
+                "may do this")

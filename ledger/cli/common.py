@@ -78,4 +78,6 @@ def actor(by: str | None) -> str:
     return name
 
 
-BY_OPTION = typer.Option(None, "--by", help="Who records this (default: $WBLEDGER_USER or login).")
+BY_OPTION = typer.Option(None, "--by", help="Who records this (default: $WBLEDGER_USER or "
+                         "login). On PostgreSQL, unless you own the ledger's tables, it is "
+                         "always your database user.")

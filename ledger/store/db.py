@@ -25,7 +25,14 @@ from sqlalchemy import Engine, create_engine, event, inspect
 from sqlalchemy.engine import Connection, make_url
 from sqlalchemy.orm import Session, sessionmaker
 
-from ledger.errors import DatabaseOpenError, InputError, LedgerError, SchemaError, StoredDataError
+from ledger.errors import (
+    AccessRefusedError,
+    DatabaseOpenError,
+    InputError,
+    LedgerError,
+    SchemaError,
+    StoredDataError,
+)
 from ledger.files import create_private_file, make_private_folder, replacing
 
 __all__ = [
@@ -88,6 +95,20 @@ def _refuse_unopenable(url: str):
         reason = _first_line(context.original_exception)
         raise DatabaseOpenError("--db", shown, f"a database that can be opened ({reason})",
                                 hint=hint) from None
+
+    return listener
+
+
+def _refuse_denied(url: str):
+    """A ``handle_error`` listener (PostgreSQL): a statement the server refuses to this user
+    (SQLSTATE 42501, insufficient_privilege: a privilege the user's role lacks, or one of the
+    append-only guards of :mod:`ledger.store.guards`) becomes one line naming the user."""
+    user = make_url(url).username
+
+    def listener(context) -> None:
+        exc = context.original_exception
+        if getattr(exc, "sqlstate", None) == "42501":
+            raise AccessRefusedError(_first_line(exc), user) from None
 
     return listener
 
@@ -171,6 +192,7 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
         raise InputError("--db", shown, f"needs the database driver {exc.name!r}",
                          hint=hint) from None
     event.listen(engine, "handle_error", _refuse_unopenable(url))
+    event.listen(engine, "handle_error", _refuse_denied(url))
     return engine
 
 

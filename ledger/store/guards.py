@@ -29,6 +29,7 @@ GUARDED_TABLES = ("vehicle_types", "type_revisions", "vehicles", "ledger_entries
 
 _PG_FUNCTION = "wbledger_append_only"
 _PG_RECORDER = "wbledger_recorded_by"
+_PG_PATH = "pg_catalog, pg_temp"
 
 #: On PostgreSQL, the column of each table that names who wrote the row: for anyone but the
 #: tables' owner (or a member of the owner role) it must be the database user writing it.
@@ -56,8 +57,12 @@ def install(conn: Connection, tables=GUARDED_TABLES) -> None:
                 f"CREATE TRIGGER {dele} BEFORE DELETE ON {t} BEGIN SELECT RAISE(ABORT, "
                 f"'wbledger: {t} is append-only; rows are never deleted'); END")
         return
+    # Each function fixes its own search path: a user who may create objects in some schema
+    # (everyone could in public before PostgreSQL 15) could otherwise put a look-alike of
+    # pg_has_role, to_jsonb or an operator first on the session's path and pass the check.
     conn.exec_driver_sql(
-        f"CREATE OR REPLACE FUNCTION {_PG_FUNCTION}() RETURNS trigger LANGUAGE plpgsql AS $$ "
+        f"CREATE OR REPLACE FUNCTION {_PG_FUNCTION}() RETURNS trigger LANGUAGE plpgsql "
+        f"SET search_path = {_PG_PATH} AS $$ "
         # (%% is the driver's escape for the format's %)
         "BEGIN RAISE EXCEPTION 'wbledger: %% on %% is refused: the table is append-only', "
         "TG_OP, TG_TABLE_NAME USING ERRCODE = 'insufficient_privilege'; END $$")
@@ -65,7 +70,8 @@ def install(conn: Connection, tables=GUARDED_TABLES) -> None:
     # that a member of a wbledger group role cannot record in someone else's name. The owner
     # (who runs migrations and imports histories recorded elsewhere) is not held to it.
     conn.exec_driver_sql(
-        f"CREATE OR REPLACE FUNCTION {_PG_RECORDER}() RETURNS trigger LANGUAGE plpgsql AS $$ "
+        f"CREATE OR REPLACE FUNCTION {_PG_RECORDER}() RETURNS trigger LANGUAGE plpgsql "
+        f"SET search_path = {_PG_PATH} AS $$ "
         "DECLARE owner oid; BEGIN "
         "SELECT relowner INTO owner FROM pg_class WHERE oid = TG_RELID; "
         "IF NOT pg_has_role(current_user, owner, 'MEMBER') "
