@@ -382,7 +382,7 @@ def verify_vehicle(session, registration: str, *, expect_head: str | None = None
             raise InputError("--expect", expect_head, "a head hash: 64 hexadecimal digits "
                              "(0-9, a-f) as `wbledger verify` prints it")
     vehicle = get_vehicle(session, registration)
-    result = session.execute(_select([vehicle.id]).execution_options(yield_per=5000))
+    result = session.connection().execute(_select([vehicle.id]).execution_options(yield_per=5000))
     return check_entries(registration, (r[1:] for r in result), expect_head=expect_head)
 
 
@@ -397,7 +397,7 @@ def verify_all(session) -> list[ChainReport]:
     vehicles = session.execute(select(VehicleRow.id, VehicleRow.registration)).all()
     names = {vid: reg for vid, reg in vehicles}
     reports: dict[int, ChainReport] = {}
-    result = session.execute(_select().execution_options(yield_per=5000))
+    result = session.connection().execute(_select().execution_options(yield_per=5000))
     for vid, rows in itertools.groupby(result, key=lambda r: r[0]):
         reports[vid] = check_entries(names[vid], (r[1:] for r in rows))
     out = [reports.get(vid) or ChainReport(reg, 0, None, None, True) for vid, reg in vehicles]

@@ -144,7 +144,12 @@ def _sqlite_begin(conn: Connection) -> None:
     conn.exec_driver_sql("BEGIN IMMEDIATE")
 
 
-def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
+def _sqlite_begin_read(conn: Connection) -> None:
+    conn.exec_driver_sql("BEGIN")
+
+
+def make_engine(url: str | None = None, *, echo: bool = False,
+                read_only: bool = False) -> Engine:
     """Create an engine for ``url`` (see :func:`resolve_url`) with the ledger's settings.
 
     For the default SQLite file the parent directory is created (0700). A SQLite file that
@@ -175,7 +180,9 @@ def make_engine(url: str | None = None, *, echo: bool = False) -> Engine:
         )
         event.listen(engine, "do_connect", _sqlite_private_file)
         event.listen(engine, "connect", _sqlite_pragmas)
-        event.listen(engine, "begin", _sqlite_begin)
+        # A reader (read_only: a second process helping `verify`) takes no write lock, so it
+        # can run beside a transaction that holds one.
+        event.listen(engine, "begin", _sqlite_begin_read if read_only else _sqlite_begin)
         event.listen(engine, "handle_error", _refuse_unopenable(url))
         return engine
     shown = parsed.render_as_string(hide_password=True)
