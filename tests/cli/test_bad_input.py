@@ -148,9 +148,9 @@ def files(tmp_path):
 CASES = [
     # --- type and vehicle ------------------------------------------------------------------
     (["type", "import", "{tmp}/missing.toml"],
-     "Error: no type file '{tmp}/missing.toml'. check the path", 2),
+     "Error: file = '{tmp}/missing.toml': no such file", 2),
     (["type", "import", "{tmp}/folder"],
-     "Error: file = '{tmp}/folder': expected a type file, got a folder", 2),
+     "Error: file = '{tmp}/folder': a type file, not a folder", 2),
     (["type", "import", "{tmp}/garbage.toml"],
      "Error: file = '{tmp}/garbage.toml': not UTF-8 text (byte 0); save the file as UTF-8", 2),
     (["type", "import", "{tmp}/empty.toml"],
