@@ -954,6 +954,25 @@ def _match(name: str, choices: Mapping[str, Any]) -> str | None:
     return folded[0] if len(folded) == 1 else None
 
 
+def implausible_empty_mass(vtype, mass_kg: float, unit: str) -> str | None:
+    """None when ``mass_kg`` is a plausible empty mass for ``vtype``
+    (:func:`ledger.core.weighing.plausible_empty_mass`); else what is allowed, in ``unit``, for
+    the error that refuses it."""
+    from ledger.core.weighing import PLAUSIBLE_EMPTY_MULTIPLE, plausible_empty_mass
+    from ledger.units import format_quantity
+
+    largest = vtype.limits.largest_maximum()
+    if plausible_empty_mass(mass_kg, None if largest is None else largest[0]):
+        return None
+    if largest is None:
+        return "a finite empty mass above 0"
+    limit, name = largest
+    times = "" if PLAUSIBLE_EMPTY_MULTIPLE == 1 else f"{PLAUSIBLE_EMPTY_MULTIPLE:g} times "
+    return (f"an empty mass above 0 and at most {times}the largest maximum mass of type "
+            f"{vtype.name}, {format_quantity(PLAUSIBLE_EMPTY_MULTIPLE * limit, unit, 1)} "
+            f"({name})")
+
+
 def record_weighing(session: Session, registration: str, readings: Mapping[str, Any], *,
                     actor: str, tares: Mapping[str, Any] | None = None,
                     fuel: Mapping[str, Any] | None = None,
@@ -987,7 +1006,8 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
     ------
     InputError
         A missing or unknown weighing point, a negative net reading, a non-finite value, an
-        unknown tank, a quantity above the tank's capacity.
+        unknown tank, a quantity above the tank's capacity; a result that is not a plausible
+        empty mass for the type (:func:`implausible_empty_mass`), naming the readings.
     """
     from ledger.core.weighing import Correction, empty_weight_from_scales
     from ledger.units import parse_quantity_of
@@ -1083,6 +1103,17 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
         [given[n] for n in names], [tare.get(n, 0.0) for n in names],
         [points[n].x_m for n in names], [points[n].y_m for n in names], points=names,
         corrections=corrections)
+    allowed = implausible_empty_mass(vt, result.mass, units.mass)
+    if allowed is not None:
+        from ledger.units import format_quantity, to_unit
+
+        typed = {_match(k, points): v for k, v in readings.items()}  # as the user gave them
+        shown = ", ".join(f"{n}={typed[n]}" for n in names)
+        value = to_unit(result.mass, units.mass)
+        mass = (format_quantity(result.mass, units.mass, 1) if abs(value) < 1e9
+                else f"{value:.3g} {units.mass}")
+        raise InputError("empty mass", mass, allowed, hint=f"The readings were {shown}: check "
+                         "each, and the unit of the scales")
     detail = {
         "type": info.name, "type_revision": info.revision,
         "points": {n: {"reading_kg": given[n], "tare_kg": tare.get(n, 0.0),
