@@ -45,6 +45,7 @@ from typing import Any, NamedTuple
 from sqlalchemy import bindparam, event, func, insert, select, true
 from sqlalchemy.orm import Session
 
+from ledger.bounds import TEXT_MAX, check_text
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
 from ledger.store.chain import (ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash,
                                 verify_vehicle)
@@ -305,15 +306,14 @@ def parse_date(value: dt.date | str | None, *, field: str = "--date",
     return parsed
 
 
-def _text(value, field: str, *, required: bool = False, max_len: int = 200) -> str | None:
+def _text(value, field: str, *, required: bool = False, max_len: int = TEXT_MAX) -> str | None:
+    """``value`` stripped, or None when empty; no NUL and at most ``max_len`` characters
+    (:func:`ledger.bounds.check_text`)."""
     if value is None or (isinstance(value, str) and not value.strip()):
         if required:
             raise InputError(field, value or "", "required: a non-empty text")
         return None
-    text = str(value).strip()
-    if len(text) > max_len:
-        raise InputError(field, text[:40] + "…", f"at most {max_len} characters")
-    return text
+    return check_text(field, str(value).strip(), max_len)
 
 
 def _quantity(value, dimension: str, default_unit: str | None, field: str, *,
