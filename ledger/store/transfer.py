@@ -172,10 +172,13 @@ def _json_entry_lines(text: str, count: int) -> list[int] | None:
         pos = text.index("[", at) + 1
         out = []
         ws = " \t\r\n,"
+        line, counted = 1, 0  # newlines are counted once, from where the last count ended
         for _ in range(count):
             while text[pos] in ws:
                 pos += 1
-            out.append(text.count("\n", 0, pos) + 1)
+            line += text.count("\n", counted, pos)
+            counted = pos
+            out.append(line)
             _, pos = decoder.raw_decode(text, pos)
         return out
     except (ValueError, IndexError):
