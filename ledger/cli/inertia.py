@@ -66,6 +66,7 @@ def inertia(
     from ledger.typedata.plan import parse_plan, plan_vehicle, read_plan_file
     from ledger.units import parse_length
 
+    limit = common.size_limit(max_size)
     if csv_layout not in CSV_LAYOUTS:
         raise InputError("--csv-layout", csv_layout, "one of " + ", ".join(CSV_LAYOUTS))
     if phase is not None and plan is None:
@@ -77,7 +78,7 @@ def inertia(
         installed = installed_items(session, registration, as_of=as_of)
         parsed = None
         if plan is not None:
-            raw = read_plan_file(plan, max_size=common.size_limit(max_size))
+            raw = read_plan_file(plan, max_size=limit)
             named = plan_vehicle(raw, str(plan))
             if named != registration:
                 raise InputError("vehicle", named, f"the vehicle of the command, "

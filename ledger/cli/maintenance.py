@@ -229,11 +229,11 @@ def import_history(ctx: typer.Context, registration: str = REG_ARG,
     from ledger.store.db import session_scope
     from ledger.store.transfer import import_history as do_import
 
+    limit = common.size_limit(max_size)
     fmt = fmt or file.suffix.lower().lstrip(".")
     if fmt not in ("csv", "json"):
         raise InputError("--format", fmt, "csv or json (give --format when the file name "
                          "does not end in .csv or .json)")
-    limit = common.size_limit(max_size)
     text = read_input_text(file, field="FILE", what=f"a history file ({fmt.upper()})",
                            limit=HISTORY_LIMIT if limit is None else limit)
     with session_scope(common.state(ctx).engine()) as session:

@@ -100,12 +100,12 @@ def _is_file(target: str) -> bool:
             or "/" in target or "\\" in target)
 
 
-def _raw_plan(target: str, options, max_size: str | None) -> tuple[dict, str]:
+def _raw_plan(target: str, options, max_size: int | None) -> tuple[dict, str]:
     """The raw plan (file plus options, or options alone) and its source name."""
     from ledger.typedata.plan import merge_options, plan_from_options, read_plan_file
 
     if _is_file(target):
-        raw = read_plan_file(target, max_size=common.size_limit(max_size))
+        raw = read_plan_file(target, max_size=max_size)
         if not options.empty:
             raw = merge_options(raw, options)
         return raw, target
@@ -170,9 +170,10 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
     from ledger.store.sheets import prepare_sheet, save_prepared
 
     _check_outputs(pdf, svg)
+    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
-    raw, source = _raw_plan(target, options, max_size)
+    raw, source = _raw_plan(target, options, limit)
     with session_scope(common.state(ctx).engine()) as session:
         prepared = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw))
         doc = prepared.document
@@ -204,9 +205,9 @@ def amend(ctx: typer.Context,
     from ledger.typedata.plan import read_plan_file
 
     _check_outputs(pdf, svg)
+    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, None, None, None, None, None)
-    raw = (read_plan_file(plan_file, max_size=common.size_limit(max_size))
-           if plan_file is not None else None)
+    raw = read_plan_file(plan_file, max_size=limit) if plan_file is not None else None
     with session_scope(common.state(ctx).engine()) as session:
         saved, check = amend_sheet(session, sheet_id, options=None if raw else options,
                                    raw=raw, source=str(plan_file) if raw else "amendment",
@@ -276,9 +277,10 @@ def check(ctx: typer.Context, target: str = PLAN_ARG,
     from ledger.store.db import session_scope
     from ledger.store.sheets import prepare_sheet
 
+    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
-    raw, source = _raw_plan(target, options, max_size)
+    raw, source = _raw_plan(target, options, limit)
     with session_scope(common.state(ctx).engine()) as session:
         doc = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw)).document
 
