@@ -9,6 +9,9 @@ from typing import Any, Callable, NoReturn
 
 import typer
 
+from ledger.bounds import ID_MAX
+from ledger.files import format_size, parse_size
+
 #: Command modules that register themselves when present (one module per group of commands).
 OPTIONAL_MODULES = ("maintenance", "integrity", "configs", "sheets", "inertia", "ground", "demo")
 
@@ -81,3 +84,22 @@ def actor(by: str | None) -> str:
 BY_OPTION = typer.Option(None, "--by", help="Who records this (default: $WBLEDGER_USER or "
                          "login). On PostgreSQL, unless you own the ledger's tables, it is "
                          "always your database user.")
+
+
+def max_size_option(default: int) -> Any:
+    """``--max-size SIZE`` for a command that reads a file the user names; ``default`` is the
+    limit in bytes without it (:data:`ledger.files.INPUT_LIMIT` or ``HISTORY_LIMIT``)."""
+    return typer.Option(None, "--max-size", metavar="SIZE",
+                        help=f"Largest input file read, in bytes or with KiB, MiB or GiB "
+                             f"(default {format_size(default)}).")
+
+
+def size_limit(max_size: str | None) -> int | None:
+    """The byte limit ``--max-size`` gives, or None for the command's default."""
+    return None if max_size is None else parse_size(max_size)
+
+
+#: Entry numbers, sheet ids and revisions given on the command line: 1 to the largest value of
+#: an ``integer`` column of PostgreSQL (:data:`ledger.bounds.ID_MAX`), so that none reaches the
+#: database driver out of range.
+ID_RANGE = {"min": 1, "max": ID_MAX}

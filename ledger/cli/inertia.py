@@ -13,6 +13,7 @@ from pathlib import Path
 import typer
 
 from ledger.cli import common
+from ledger.files import INPUT_LIMIT
 
 
 HELP = (
@@ -50,6 +51,7 @@ def inertia(
     csv_layout: str = typer.Option("long", "--csv-layout", metavar="LAYOUT",
                                    help="long: one row per quantity; wide: one header row "
                                    "and one value row."),
+    max_size: str = common.max_size_option(INPUT_LIMIT),
     as_json: bool = common.JSON_OPTION,
 ) -> None:
     """Loaded inertia about the loaded CG in body axes (x forward, y right, z down)."""
@@ -64,6 +66,7 @@ def inertia(
     from ledger.typedata.plan import parse_plan, plan_vehicle, read_plan_file
     from ledger.units import parse_length
 
+    limit = common.size_limit(max_size)
     if csv_layout not in CSV_LAYOUTS:
         raise InputError("--csv-layout", csv_layout, "one of " + ", ".join(CSV_LAYOUTS))
     if phase is not None and plan is None:
@@ -75,7 +78,7 @@ def inertia(
         installed = installed_items(session, registration, as_of=as_of)
         parsed = None
         if plan is not None:
-            raw = read_plan_file(plan)
+            raw = read_plan_file(plan, max_size=limit)
             named = plan_vehicle(raw, str(plan))
             if named != registration:
                 raise InputError("vehicle", named, f"the vehicle of the command, "

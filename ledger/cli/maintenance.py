@@ -13,6 +13,7 @@ from pathlib import Path
 import typer
 
 from ledger.cli import common
+from ledger.files import HISTORY_LIMIT
 
 DATE_OPTION = typer.Option(None, "--date", metavar="YYYY-MM-DD",
                            help="Date of the work (default today; not in the future).")
@@ -138,7 +139,8 @@ def remove(ctx: typer.Context, registration: str = REG_ARG,
 
 
 def correct(ctx: typer.Context, registration: str = REG_ARG,
-            seq: int = typer.Argument(..., metavar="SEQ", help="Entry to reverse."),
+            seq: int = typer.Argument(..., metavar="SEQ", help="Entry to reverse.",
+                                      **common.ID_RANGE),
             reason: str = typer.Option(None, "--reason", metavar="TEXT",
                                        help="Why it is reversed (required)."),
             reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
@@ -191,22 +193,22 @@ def import_history(ctx: typer.Context, registration: str = REG_ARG,
                                                help="A CSV or JSON history."),
                    fmt: str = typer.Option(None, "--format", metavar="csv|json",
                                            help="File format (default: from the file name)."),
+                   max_size: str = common.max_size_option(HISTORY_LIMIT),
                    as_json: bool = common.JSON_OPTION) -> None:
     """Append the entries of a history file to a vehicle's ledger, all or nothing."""
     from ledger.errors import InputError
+    from ledger.files import read_input_text
     from ledger.report.ledger import render_import
     from ledger.store.db import session_scope
     from ledger.store.transfer import import_history as do_import
 
+    limit = common.size_limit(max_size)
     fmt = fmt or file.suffix.lower().lstrip(".")
     if fmt not in ("csv", "json"):
         raise InputError("--format", fmt, "csv or json (give --format when the file name "
                          "does not end in .csv or .json)")
-    try:
-        text = file.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError("FILE", str(file), f"a readable UTF-8 file ({exc.__class__.__name__})") \
-            from None
+    text = read_input_text(file, field="FILE", what=f"a history file ({fmt.upper()})",
+                           limit=HISTORY_LIMIT if limit is None else limit)
     with session_scope(common.state(ctx).engine()) as session:
         summary = do_import(session, registration, text, fmt, source=file.name)
     common.emit(summary.to_dict(), render_import, as_json)

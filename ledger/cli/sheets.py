@@ -23,6 +23,7 @@ import typer
 from typer.core import TyperGroup
 
 from ledger.cli import common
+from ledger.files import INPUT_LIMIT
 
 __all__ = ["register", "sheet_app"]
 
@@ -78,6 +79,7 @@ AXLE_RULES = typer.Option(None, "--axle-rules", metavar="NAME",
                           help="Ground vehicles: axle-group rule set shown as an advisory "
                                "(see `wbledger axle-rules list`).")
 WIDTH = typer.Option(80, "--width", min=60, max=240, help="Width of the terminal sheet.")
+MAX_SIZE = common.max_size_option(INPUT_LIMIT)
 PDF = typer.Option(None, "--pdf", metavar="FILE", help="Also write the sheet as a PDF to sign.")
 SVG = typer.Option(None, "--svg", metavar="FILE", help="Also write the sheet as SVG.")
 
@@ -98,12 +100,12 @@ def _is_file(target: str) -> bool:
             or "/" in target or "\\" in target)
 
 
-def _raw_plan(target: str, options) -> tuple[dict, str]:
+def _raw_plan(target: str, options, max_size: int | None) -> tuple[dict, str]:
     """The raw plan (file plus options, or options alone) and its source name."""
     from ledger.typedata.plan import merge_options, plan_from_options, read_plan_file
 
     if _is_file(target):
-        raw = read_plan_file(target)
+        raw = read_plan_file(target, max_size=max_size)
         if not options.empty:
             raw = merge_options(raw, options)
         return raw, target
@@ -159,7 +161,7 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
             save: bool = typer.Option(False, "--save",
                                       help="Save the sheet (immutable; amend it later)."),
             as_json: bool = common.JSON_OPTION, pdf: Path = PDF, svg: Path = SVG,
-            width: int = WIDTH) -> None:
+            width: int = WIDTH, max_size: str = MAX_SIZE) -> None:
     """Prepare a loading sheet: every phase, the fuel-burn path, margins and fixes.
 
     `wbledger sheet PLAN` is the same command. Exit code 1 when out of limits.
@@ -168,9 +170,10 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
     from ledger.store.sheets import prepare_sheet, save_prepared
 
     _check_outputs(pdf, svg)
+    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
-    raw, source = _raw_plan(target, options)
+    raw, source = _raw_plan(target, options, limit)
     with session_scope(common.state(ctx).engine()) as session:
         prepared = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw))
         doc = prepared.document
@@ -184,13 +187,14 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
 
 @sheet_app.command("amend")
 def amend(ctx: typer.Context,
-          sheet_id: int = typer.Argument(..., metavar="ID", help="The saved sheet to amend."),
+          sheet_id: int = typer.Argument(..., metavar="ID", help="The saved sheet to amend.",
+                                         **common.ID_RANGE),
           plan_file: Path = typer.Option(None, "--plan", metavar="FILE",
                                          help="A whole new plan instead of option changes."),
           person: list[str] = PERSON, vacate: list[str] = VACATE, cargo: list[str] = CARGO,
           fuel: list[str] = FUEL, taxi: str = TAXI, trip: str = TRIP,
           by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION, pdf: Path = PDF,
-          svg: Path = SVG, width: int = WIDTH) -> None:
+          svg: Path = SVG, width: int = WIDTH, max_size: str = MAX_SIZE) -> None:
     """Amend a saved sheet for a last-minute change within the type's tolerance.
 
     The amended sheet is saved and points at the original; a change beyond the tolerance
@@ -201,8 +205,9 @@ def amend(ctx: typer.Context,
     from ledger.typedata.plan import read_plan_file
 
     _check_outputs(pdf, svg)
+    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, None, None, None, None, None)
-    raw = read_plan_file(plan_file) if plan_file is not None else None
+    raw = read_plan_file(plan_file, max_size=limit) if plan_file is not None else None
     with session_scope(common.state(ctx).engine()) as session:
         saved, check = amend_sheet(session, sheet_id, options=None if raw else options,
                                    raw=raw, source=str(plan_file) if raw else "amendment",
@@ -216,7 +221,8 @@ def amend(ctx: typer.Context,
 
 @sheet_app.command("show")
 def show(ctx: typer.Context,
-         sheet_id: int = typer.Argument(..., metavar="ID", help="A saved sheet."),
+         sheet_id: int = typer.Argument(..., metavar="ID", help="A saved sheet.",
+                                        **common.ID_RANGE),
          as_json: bool = common.JSON_OPTION, pdf: Path = PDF, svg: Path = SVG,
          width: int = WIDTH) -> None:
     """Show a saved sheet as it was saved (its content hash is verified)."""
@@ -239,7 +245,8 @@ def show(ctx: typer.Context,
 def list_(ctx: typer.Context,
           registration: str = typer.Argument(None, metavar="[REG]",
                                              help="Only this vehicle's sheets."),
-          limit: int = typer.Option(50, "--limit", min=1, help="At most this many."),
+          limit: int = typer.Option(50, "--limit", help="At most this many.",
+                                    **common.ID_RANGE),
           as_json: bool = common.JSON_OPTION) -> None:
     """List saved sheets, newest first."""
     from ledger.store.db import session_scope
@@ -265,14 +272,15 @@ def check(ctx: typer.Context, target: str = PLAN_ARG,
           fuel: list[str] = FUEL, taxi: str = TAXI, trip: str = TRIP, burn: str = BURN,
           configuration: str = CONFIG, category: str = CATEGORY, masses: str = MASSES,
           axle_rules: str = AXLE_RULES, by: str = common.BY_OPTION,
-          as_json: bool = common.JSON_OPTION) -> None:
+          as_json: bool = common.JSON_OPTION, max_size: str = MAX_SIZE) -> None:
     """Check a plan without the sheet: exit 0 in limits, 1 out of limits, 2 bad input."""
     from ledger.store.db import session_scope
     from ledger.store.sheets import prepare_sheet
 
+    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
-    raw, source = _raw_plan(target, options)
+    raw, source = _raw_plan(target, options, limit)
     with session_scope(common.state(ctx).engine()) as session:
         doc = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw)).document
 

@@ -7,6 +7,7 @@ from pathlib import Path
 import typer
 
 from ledger.cli import common
+from ledger.files import INPUT_LIMIT
 
 type_app = typer.Typer(help="Vehicle types: import type files and look at their revisions.",
                        no_args_is_help=True)
@@ -19,19 +20,21 @@ def register(app: typer.Typer) -> None:
 @type_app.command("import")
 def import_(ctx: typer.Context,
             files: list[Path] = typer.Argument(..., help="Type files (TOML) to import."),
+            max_size: str = common.max_size_option(INPUT_LIMIT),
             as_json: bool = common.JSON_OPTION) -> None:
     """Import type files; a changed file becomes a new revision of its type."""
     from ledger.store.db import session_scope
     from ledger.store.catalog import import_type
-    from ledger.typedata import load_type_file
+    from ledger.typedata import read_type_file
 
-    parsed = [(f, load_type_file(f)) for f in files]  # every file valid before anything is written
+    limit = common.size_limit(max_size)
+    # Every file read once and valid before anything is written; the text kept is the one parsed.
+    parsed = [(f, *read_type_file(f, max_size=limit)) for f in files]
     engine = common.state(ctx).engine()
     with session_scope(engine) as session:
-        results = [import_type(session, vt, str(f), f.read_text(encoding="utf-8"))
-                   for f, vt in parsed]
+        results = [import_type(session, vt, str(f), text) for f, vt, text in parsed]
     data = [{"file": str(f), "type": r.name, "revision": r.revision, "new_revision": r.created,
-             "content_sha256": r.content_sha256} for (f, _), r in zip(parsed, results)]
+             "content_sha256": r.content_sha256} for (f, _, _), r in zip(parsed, results)]
 
     def render(rows):
         for row in rows:
@@ -55,7 +58,8 @@ def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
 
 @type_app.command("show")
 def show(ctx: typer.Context, name: str = typer.Argument(..., help="Type name."),
-         revision: int = typer.Option(None, "--revision", help="Revision (default: newest)."),
+         revision: int = typer.Option(None, "--revision", help="Revision (default: newest).",
+                                      **common.ID_RANGE),
          as_json: bool = common.JSON_OPTION) -> None:
     """Show a type: limits, stations, tanks and envelopes, in its display units."""
     from ledger.report.catalog import render_type, type_document

@@ -24,6 +24,8 @@ import numpy as np
 from ledger.errors import InputError, MassPropertiesError
 
 __all__ = [
+    "PLAUSIBLE_EMPTY_MULTIPLE",
+    "plausible_empty_mass",
     "Correction",
     "BreakdownLine",
     "WeighingResult",
@@ -31,6 +33,33 @@ __all__ = [
     "PitchedCG",
     "vertical_cg_from_pitch",
 ]
+
+
+#: A weighed empty mass is plausible for a type up to this multiple of the type's largest
+#: maximum mass (maximum ramp or take-off mass; gross vehicle rating). An empty vehicle weighs
+#: less than the most it may weigh loaded, so 1.0 already gives room; a result beyond it is a
+#: misread scale, a reading in the wrong unit or a reading typed twice, not a vehicle.
+PLAUSIBLE_EMPTY_MULTIPLE = 1.0
+
+
+def plausible_empty_mass(mass: float, largest_max_mass: float | None) -> bool:
+    """Whether ``mass`` (kg) is a plausible empty mass for a type whose largest maximum mass is
+    ``largest_max_mass`` (kg; None when the type states none).
+
+    Plausible: finite, above 0, and not above :data:`PLAUSIBLE_EMPTY_MULTIPLE` times the largest
+    maximum mass (common practice: the empty weight is part of every loaded weight that the
+    type's limits bound).
+
+    Examples
+    --------
+    >>> plausible_empty_mass(700.0, 1111.0), plausible_empty_mass(1200.0, 1111.0)
+    (True, False)
+    >>> plausible_empty_mass(float("inf"), None), plausible_empty_mass(0.0, 1111.0)
+    (False, False)
+    """
+    if not (math.isfinite(mass) and mass > 0):
+        return False
+    return largest_max_mass is None or mass <= PLAUSIBLE_EMPTY_MULTIPLE * largest_max_mass
 
 
 @dataclass(frozen=True)

@@ -42,7 +42,9 @@ import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
+from ledger.bounds import load_toml
 from ledger.errors import ConflictError, InputError, NotFoundError
+from ledger.files import read_input_text
 
 
 class _Missing:
@@ -230,7 +232,7 @@ def parse_rule_set_text(text: str, name: str, *, source: str = "<text>",
         raise InputError("rule set", name, "a name of lower-case letters, digits, '.', '_' or "
                          "'-' (the file name without .toml)", source=source)
     try:
-        data = tomllib.loads(text)
+        data = load_toml(text, source=source)
     except tomllib.TOMLDecodeError as exc:
         raise InputError("rule set file", source, f"not valid TOML ({exc})") from None
     for k in data:
@@ -271,12 +273,13 @@ def parse_rule_set_text(text: str, name: str, *, source: str = "<text>",
 
 
 def load_rule_set_file(path: str | os.PathLike, *, builtin: bool = False) -> RuleSetFile:
-    """Read one rule-set file; its name is the file name without ``.toml``."""
+    """Read one rule-set file; its name is the file name without ``.toml``.
+
+    The file is read by :func:`ledger.files.read_input_text`: a regular UTF-8 file of at most
+    :data:`ledger.files.INPUT_LIMIT` (1 MiB; a rule set is a few hundred bytes).
+    """
     p = Path(path)
-    try:
-        text = p.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise InputError("rule set file", str(p), f"cannot be read ({exc.strerror})") from None
+    text = read_input_text(p, field="rule set file", what="a rule set file (TOML)", option=None)
     return parse_rule_set_text(text, p.stem, source=str(p), builtin=builtin)
 
 

@@ -16,6 +16,7 @@ from dataclasses import dataclass
 from sqlalchemy import func, select
 from sqlalchemy.orm import Session
 
+from ledger.bounds import NAME_MAX, check_text
 from ledger.errors import ConflictError, InputError, NotFoundError
 from ledger.store.models import TypeRevisionRow, VehicleRow, VehicleTypeRow
 from ledger.store.seal import GENESIS_HASH, type_revision_seal, vehicle_seal
@@ -171,6 +172,9 @@ def add_vehicle(session: Session, registration: str, type_name: str, *,
     if not REGISTRATION_PATTERN.match(registration or ""):
         raise InputError("registration", registration,
                          "1 to 40 letters, digits or '-', starting with a letter or digit")
+    for option, text, most in (("--serial", serial, NAME_MAX), ("--note", note, None)):
+        if text is not None:
+            check_text(option, text, most)  # no NUL; within the column (ledger.bounds)
     rev = type_revision(session, type_name)
     if session.scalar(select(VehicleRow.id).where(VehicleRow.registration == registration)):
         raise ConflictError(f"vehicle {registration!r} already exists; "

@@ -27,6 +27,7 @@ from typing import Any
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
+from ledger.bounds import NAME_MAX, TEXT_MAX, check_text
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
 from ledger.store.chain import GENESIS_HASH, canonical_json
 from ledger.store.models import ConfigurationRow, VehicleRow, VehicleTypeRow
@@ -247,7 +248,10 @@ def define_configuration(session: Session, name: str, *, actor: str,
     """
     from ledger.store.entries import _length, _mass, _text, parse_shape
 
-    cname = _text(name, "NAME", required=True, max_len=120)
+    cname = _text(name, "NAME", required=True, max_len=NAME_MAX)
+    check_text("--by", actor, TEXT_MAX)
+    if description is not None:
+        check_text("--description", description)
     if (type_name is None) == (registration is None):
         raise InputError("--type/--vehicle", type_name or registration or "",
                          "exactly one owner: --type NAME or --vehicle REG")

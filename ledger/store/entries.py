@@ -45,6 +45,7 @@ from typing import Any, NamedTuple
 from sqlalchemy import bindparam, event, func, insert, select, true
 from sqlalchemy.orm import Session
 
+from ledger.bounds import TEXT_MAX, check_text
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
 from ledger.store.roles import recorder
 from ledger.store.chain import ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash
@@ -308,15 +309,14 @@ def parse_date(value: dt.date | str | None, *, field: str = "--date",
     return parsed
 
 
-def _text(value, field: str, *, required: bool = False, max_len: int = 200) -> str | None:
+def _text(value, field: str, *, required: bool = False, max_len: int = TEXT_MAX) -> str | None:
+    """``value`` stripped, or None when empty; no NUL and at most ``max_len`` characters
+    (:func:`ledger.bounds.check_text`)."""
     if value is None or (isinstance(value, str) and not value.strip()):
         if required:
             raise InputError(field, value or "", "required: a non-empty text")
         return None
-    text = str(value).strip()
-    if len(text) > max_len:
-        raise InputError(field, text[:40] + "…", f"at most {max_len} characters")
-    return text
+    return check_text(field, str(value).strip(), max_len)
 
 
 def _quantity(value, dimension: str, default_unit: str | None, field: str, *,
@@ -942,6 +942,25 @@ def _match(name: str, choices: Mapping[str, Any]) -> str | None:
     return folded[0] if len(folded) == 1 else None
 
 
+def implausible_empty_mass(vtype, mass_kg: float, unit: str) -> str | None:
+    """None when ``mass_kg`` is a plausible empty mass for ``vtype``
+    (:func:`ledger.core.weighing.plausible_empty_mass`); else what is allowed, in ``unit``, for
+    the error that refuses it."""
+    from ledger.core.weighing import PLAUSIBLE_EMPTY_MULTIPLE, plausible_empty_mass
+    from ledger.units import format_quantity
+
+    largest = vtype.limits.largest_maximum()
+    if plausible_empty_mass(mass_kg, None if largest is None else largest[0]):
+        return None
+    if largest is None:
+        return "a finite empty mass above 0"
+    limit, name = largest
+    times = "" if PLAUSIBLE_EMPTY_MULTIPLE == 1 else f"{PLAUSIBLE_EMPTY_MULTIPLE:g} times "
+    return (f"an empty mass above 0 and at most {times}the largest maximum mass of type "
+            f"{vtype.name}, {format_quantity(PLAUSIBLE_EMPTY_MULTIPLE * limit, unit, 1)} "
+            f"({name})")
+
+
 def record_weighing(session: Session, registration: str, readings: Mapping[str, Any], *,
                     actor: str, tares: Mapping[str, Any] | None = None,
                     fuel: Mapping[str, Any] | None = None,
@@ -975,7 +994,8 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
     ------
     InputError
         A missing or unknown weighing point, a negative net reading, a non-finite value, an
-        unknown tank, a quantity above the tank's capacity.
+        unknown tank, a quantity above the tank's capacity; a result that is not a plausible
+        empty mass for the type (:func:`implausible_empty_mass`), naming the readings.
     """
     from ledger.core.weighing import Correction, empty_weight_from_scales
     from ledger.units import parse_quantity_of
@@ -1071,6 +1091,17 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
         [given[n] for n in names], [tare.get(n, 0.0) for n in names],
         [points[n].x_m for n in names], [points[n].y_m for n in names], points=names,
         corrections=corrections)
+    allowed = implausible_empty_mass(vt, result.mass, units.mass)
+    if allowed is not None:
+        from ledger.units import format_quantity, to_unit
+
+        typed = {_match(k, points): v for k, v in readings.items()}  # as the user gave them
+        shown = ", ".join(f"{n}={typed[n]}" for n in names)
+        value = to_unit(result.mass, units.mass)
+        mass = (format_quantity(result.mass, units.mass, 1) if abs(value) < 1e9
+                else f"{value:.3g} {units.mass}")
+        raise InputError("empty mass", mass, allowed, hint=f"The readings were {shown}: check "
+                         "each, and the unit of the scales")
     detail = {
         "type": info.name, "type_revision": info.revision,
         "points": {n: {"reading_kg": given[n], "tare_kg": tare.get(n, 0.0),

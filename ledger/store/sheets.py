@@ -27,6 +27,7 @@ from typing import Any, NamedTuple
 from sqlalchemy import event, select
 from sqlalchemy.orm import Session
 
+from ledger.bounds import TEXT_MAX, check_text
 from ledger.errors import ChainError, ConflictError, NotFoundError
 from ledger.store.models import (
     LedgerEntryRow,
@@ -151,6 +152,7 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
     amends_id : int, optional
         The saved sheet this one amends.
     """
+    check_text("--by", preparer, TEXT_MAX)  # no NUL; within the column (ledger.bounds)
     created_at = created_at or dt.datetime.now(dt.timezone.utc)
     preparer = recorder(session, preparer)
     doc = json.loads(canonical_json(document))  # a copy; refuses NaN

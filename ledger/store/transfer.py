@@ -18,6 +18,11 @@ must agree with what the ledger computes (floats to a relative 1e-9); the hashes
 exactly, so an exported file that was edited is refused (remove the two hash columns to import
 an edited file, or one exported from another registration).
 
+A JSON history is held to :mod:`ledger.bounds` as a whole (nesting, sizes of numbers, no NUL:
+``FILE: entries[3].actor = …``), and every text, number and whole number of a row as it is read
+(CSV too); an imported weighing's empty mass must be plausible for the vehicle's type, as for a
+weighing recorded by hand (:func:`ledger.core.weighing.plausible_empty_mass`).
+
 A bad row is reported as ``FILE line N: FIELD = VALUE: what is allowed`` and nothing of that
 import is written: every row is checked before the first insert, and the inserts run in the
 caller's one transaction. Inserts go through SQLAlchemy Core ``executemany`` in chunks.
@@ -37,6 +42,7 @@ from typing import Any
 from sqlalchemy import insert, select
 from sqlalchemy.orm import Session
 
+from ledger.bounds import NUMBER_RULE, TEXT_MAX, check_text, in_range, load_json, shown
 from ledger.errors import InputError
 from ledger.store.chain import (
     ABSOLUTE_KINDS,
@@ -166,10 +172,13 @@ def _json_entry_lines(text: str, count: int) -> list[int] | None:
         pos = text.index("[", at) + 1
         out = []
         ws = " \t\r\n,"
+        line, counted = 1, 0  # newlines are counted once, from where the last count ended
         for _ in range(count):
             while text[pos] in ws:
                 pos += 1
-            out.append(text.count("\n", 0, pos) + 1)
+            line += text.count("\n", counted, pos)
+            counted = pos
+            out.append(line)
             _, pos = decoder.raw_decode(text, pos)
         return out
     except (ValueError, IndexError):
@@ -221,7 +230,7 @@ def parse_history(text: str, fmt: str, *, source: str = "file") -> list[tuple[in
                              source=f"{source} line {reader.line_num}") from None
         return out
     try:
-        doc = json.loads(text)
+        doc = load_json(text, source=source)  # nesting, numbers and texts within ledger.bounds
     except json.JSONDecodeError as exc:
         raise InputError("document", "", f"not valid JSON: {exc.msg}",
                          source=f"{source} line {exc.lineno}") from None
@@ -294,9 +303,9 @@ class _Row:
     def num(self, name: str, *, required: bool = False, what: str = "a finite number"):
         v = self.rec.get(name)
         if v.__class__ is float:  # the common case (JSON), checked without a conversion
-            if v - v == 0.0:
+            if in_range(v):
                 return v + 0.0
-            raise self.err(name, v, what)
+            raise self.err(name, v, what if v - v != 0.0 else NUMBER_RULE)
         if v is None or v == "":
             if required:
                 raise self.err(name, "", f"required: {what}")
@@ -305,16 +314,20 @@ class _Row:
             raise self.err(name, v, what)
         try:
             f = float(v)
-        except (TypeError, ValueError):
-            raise self.err(name, v, what) from None
+        except (TypeError, ValueError, OverflowError):
+            raise self.err(name, shown(v), what) from None
         if not math.isfinite(f):
-            raise self.err(name, v, what)
+            raise self.err(name, shown(v), what)
+        if not in_range(f):
+            raise self.err(name, shown(v), NUMBER_RULE)
         return f + 0.0
 
     def int(self, name: str, *, required: bool = False, what: str = "a whole number"):
         v = self.rec.get(name)
         if v.__class__ is int:
-            return v
+            if in_range(v):
+                return v
+            raise self.err(name, shown(v), NUMBER_RULE)
         if isinstance(v, str):
             v = v.strip() or None
         if v is None:
@@ -324,17 +337,18 @@ class _Row:
         if isinstance(v, bool):
             raise self.err(name, v, what)
         try:
-            return int(str(v))
-        except ValueError:
-            raise self.err(name, v, what) from None
+            i = int(str(v))
+        except ValueError:  # also a number of more digits than Python converts
+            raise self.err(name, shown(v), what) from None
+        if not in_range(i):
+            raise self.err(name, shown(v), NUMBER_RULE)
+        return i
 
-    def text(self, name: str, *, required: bool = False, max_len: int = 200):
+    def text(self, name: str, *, required: bool = False, max_len: int = TEXT_MAX):
         v = self.rec.get(name)
         if v.__class__ is str:
             if v and not (v[0].isspace() or v[-1].isspace()):
-                if len(v) > max_len:
-                    raise self.err(name, v[:40] + "…", f"at most {max_len} characters")
-                return v
+                return check_text(name, v, max_len, source=self.where)
             v = v.strip() or None
         if v is None:
             if required:
@@ -342,9 +356,7 @@ class _Row:
             return None
         if not isinstance(v, str):
             raise self.err(name, v, "a text")
-        if len(v) > max_len:
-            raise self.err(name, v[:40] + "…", f"at most {max_len} characters")
-        return v
+        return check_text(name, v, max_len, source=self.where)
 
 
 def _close(a: float, b: float) -> bool:
@@ -384,7 +396,7 @@ def import_entries(session: Session, registration: str, records: Iterable[tuple[
         The first bad record, located ``FILE line N``; nothing is written.
     """
     from ledger.store.catalog import get_vehicle
-    from ledger.store.entries import _head, parse_date
+    from ledger.store.entries import _head, implausible_empty_mass, parse_date, vehicle_type_info
 
     vehicle = get_vehicle(session, registration, lock=True)
     reg = vehicle.registration
@@ -415,6 +427,7 @@ def import_entries(session: Session, registration: str, records: Iterable[tuple[
                 reversed_.add(rev)
     today = dt.date.today()
     now = dt.datetime.now(dt.timezone.utc)
+    vtype = None  # read for the first weighing, whose empty mass must be plausible for it
     dates: dict[str, dt.date] = {}
     out: list[dict] = []
     for line, rec in records:
@@ -456,7 +469,7 @@ def import_entries(session: Session, registration: str, records: Iterable[tuple[
             detail = raw_detail
         elif isinstance(raw_detail, str):
             try:
-                detail = json.loads(raw_detail)
+                detail = load_json(raw_detail, source=row.where, root="detail_json")
             except json.JSONDecodeError as exc:
                 raise row.err("detail_json", raw_detail[:40], f"a JSON object ({exc.msg})") \
                     from None
@@ -470,6 +483,12 @@ def import_entries(session: Session, registration: str, records: Iterable[tuple[
             raise row.err("kind", kind, "weighing: the first entry of a vehicle is a weighing")
         if kind in ABSOLUTE_KINDS:
             m = row.num("empty_mass_kg", required=True, what="the empty mass in kg, above 0")
+            if kind == "weighing" and m > 0:  # 0 or less: refused below, as for any entry
+                if vtype is None:
+                    vtype = vehicle_type_info(session, vehicle).vtype
+                allowed = implausible_empty_mass(vtype, m, "kg")
+                if allowed is not None:
+                    raise row.err("empty_mass_kg", m, allowed)
             mx = row.num("empty_mx_kgm", required=True, what="the empty moment x in kg*m")
             my = row.num("empty_my_kgm", required=True, what="the empty moment y in kg*m")
             zk = row.int("z_known", what="0 or 1")

@@ -2,7 +2,8 @@
 
 Public names::
 
-    from ledger.typedata import load_type_file, parse_type, parse_type_text, VehicleType
+    from ledger.typedata import (load_type_file, read_type_file, parse_type, parse_type_text,
+                                 VehicleType)
 
 The format is described in ``demo_fleet/FORMAT.md``. Importing this package does not load
 numpy; parsing a file imports :mod:`ledger.core.envelope` to check the envelope polygons.
@@ -40,7 +41,13 @@ from ledger.typedata.model import (
     VehicleType,
     WeightLimits,
 )
-from ledger.typedata.parse import FORMAT_VERSION, load_type_file, parse_type, parse_type_text
+from ledger.typedata.parse import (
+    FORMAT_VERSION,
+    load_type_file,
+    parse_type,
+    parse_type_text,
+    read_type_file,
+)
 from ledger.units import DisplayUnits
 
 __all__ = [
@@ -79,4 +86,5 @@ __all__ = [
     "load_type_file",
     "parse_type",
     "parse_type_text",
+    "read_type_file",
 ]

@@ -199,6 +199,24 @@ class WeightLimits:
     min_flight_kg: float | None = None
     gross_rating_kg: float | None = None
 
+    def largest_maximum(self) -> tuple[float, str] | None:
+        """The largest maximum mass the type states (kg) and its name, or None if it states
+        none: the maximum ramp mass where given, else the maximum take-off mass; the gross
+        vehicle rating for a ground vehicle.
+
+        Examples
+        --------
+        >>> WeightLimits(max_takeoff_kg=1111.0, max_landing_kg=1100.0).largest_maximum()
+        (1111.0, 'maximum take-off mass')
+        """
+        named = ((self.max_ramp_kg, "maximum ramp mass"),
+                 (self.max_takeoff_kg, "maximum take-off mass"),
+                 (self.max_landing_kg, "maximum landing mass"),
+                 (self.max_zero_fuel_kg, "maximum zero-fuel mass"),
+                 (self.gross_rating_kg, "gross vehicle rating"))
+        given = [(kg, name) for kg, name in named if kg is not None]
+        return max(given, key=lambda g: g[0]) if given else None
+
 
 @dataclass(frozen=True)
 class Extent:

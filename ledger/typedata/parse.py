@@ -19,7 +19,9 @@ import re
 import tomllib
 
 from ledger import units as U
-from ledger.errors import InputError, NotFoundError, TypeDataError
+from ledger.bounds import SOURCE_NAME_MAX, load_toml, shown
+from ledger.errors import InputError, TypeDataError
+from ledger.files import INPUT_LIMIT, read_input_text
 from ledger.typedata.model import (
     SHAPE_DIMENSIONS,
     AIRCRAFT_KINDS,
@@ -55,7 +57,7 @@ from ledger.typedata.model import (
     WeightLimits,
 )
 
-__all__ = ["FORMAT_VERSION", "load_type_file", "parse_type", "parse_type_text"]
+__all__ = ["FORMAT_VERSION", "load_type_file", "parse_type", "parse_type_text", "read_type_file"]
 
 FORMAT_VERSION = 1
 """The ``format_version`` this parser reads."""
@@ -891,10 +893,14 @@ def parse_type_text(text: str, *, source: str) -> VehicleType:
     """Parse the text of a type file (TOML). See :func:`parse_type`.
 
     A TOML syntax error is reported with its line and column:
-    ``source: line 3 = 'the line': not valid TOML: <reason> (column 7)``.
+    ``source: line 3 = 'the line': not valid TOML: <reason> (column 7)``. Nesting, numbers and
+    texts out of the bounds of :mod:`ledger.bounds` are refused before the file is read as a
+    type.
     """
     try:
-        data = tomllib.loads(text)
+        data = load_toml(text)
+    except InputError as exc:
+        raise exc.with_source(source) from None
     except tomllib.TOMLDecodeError as exc:
         msg = str(exc)
         m = _POSITION_RE.match(msg)
@@ -911,30 +917,31 @@ def parse_type_text(text: str, *, source: str) -> VehicleType:
     return parse_type(data, source=source)
 
 
-def load_type_file(path: str | os.PathLike) -> VehicleType:
-    """Read and parse one type file. Errors name the file as ``path`` was given.
+def read_type_file(path: str | os.PathLike, *,
+                   max_size: int | None = None) -> tuple[VehicleType, str]:
+    """Read and parse one type file; return the type and the text it was parsed from.
+
+    The file is read once, by :func:`ledger.files.read_input_text`: a regular file of at most
+    ``max_size`` bytes (default :data:`ledger.files.INPUT_LIMIT`, 1 MiB), UTF-8. Errors name
+    the file as ``path`` was given; that path is kept with an imported revision, so it may have
+    at most :data:`ledger.bounds.SOURCE_NAME_MAX` characters.
 
     Raises
     ------
-    NotFoundError
-        The file does not exist.
-    TypeDataError, UnitError, EnvelopeError
-        The file is not a valid type file.
+    TypeDataError, UnitError, EnvelopeError, InputError
+        The file cannot be read, or is not a valid type file.
     """
     source = os.fspath(path)
-    try:
-        with open(source, "rb") as fh:
-            raw = fh.read()
-    except FileNotFoundError:
-        raise NotFoundError("type file", source, "check the path") from None
-    except IsADirectoryError:
-        raise TypeDataError("file", source, "expected a type file, got a folder") from None
-    except OSError as exc:  # permission denied, an unreadable device
-        raise TypeDataError("file", source, f"a type file that can be read ({exc.strerror})") \
-            from None
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        raise TypeDataError("file", source, f"not UTF-8 text (byte {exc.start}); save the "
-                            "file as UTF-8") from None
-    return parse_type_text(text, source=source)
+    if len(source) > SOURCE_NAME_MAX:
+        raise TypeDataError("file", shown(source), f"a path of at most {SOURCE_NAME_MAX} "
+                            "characters (it is recorded with the type revision); give a shorter "
+                            "(relative) path")
+    text = read_input_text(source, field="file", what="a type file",
+                           limit=INPUT_LIMIT if max_size is None else max_size,
+                           error=TypeDataError)
+    return parse_type_text(text, source=source), text
+
+
+def load_type_file(path: str | os.PathLike, *, max_size: int | None = None) -> VehicleType:
+    """Read and parse one type file (see :func:`read_type_file`); return the type."""
+    return read_type_file(path, max_size=max_size)[0]

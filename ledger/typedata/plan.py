@@ -36,7 +36,9 @@ from pathlib import Path
 from typing import Any, Mapping, Sequence
 
 from ledger import units as U
+from ledger.bounds import TEXT_MAX, load_toml, shown
 from ledger.errors import InputError, NotFoundError, PlanError
+from ledger.files import INPUT_LIMIT, read_input_text
 
 __all__ = [
     "PLAN_FORMAT",
@@ -255,6 +257,8 @@ def read_plan_text(text: str, source: str = "plan") -> dict:
     ------
     PlanError
         Not TOML, or a plan_format other than :data:`PLAN_FORMAT`.
+    InputError
+        Nesting, a number or a text out of the bounds of :mod:`ledger.bounds`.
 
     Examples
     --------
@@ -267,7 +271,7 @@ def read_plan_text(text: str, source: str = "plan") -> dict:
     ledger.errors.PlanError: plan file = 'p.toml': not valid TOML: Cannot overwrite a value (at end of document). A key may appear once in a table; for several people or loads write several [[person]] or [[cargo]] tables
     """
     try:
-        data = tomllib.loads(text)
+        data = load_toml(text, source=source)
     except tomllib.TOMLDecodeError as exc:
         # The hint helps with a repeated key (two persons written as one table), not otherwise.
         repeated = str(exc).startswith(("Cannot overwrite", "Cannot declare"))
@@ -287,28 +291,20 @@ def read_plan_text(text: str, source: str = "plan") -> dict:
     return data
 
 
-def read_plan_file(path: str | Path) -> dict:
+def read_plan_file(path: str | Path, *, max_size: int | None = None) -> dict:
     """Read a plan file into the raw plan dict.
+
+    The file is read by :func:`ledger.files.read_input_text`: a regular file of at most
+    ``max_size`` bytes (default :data:`ledger.files.INPUT_LIMIT`, 1 MiB), UTF-8.
 
     Raises
     ------
     PlanError
         The file cannot be read, is not UTF-8 TOML, or has the wrong plan_format.
     """
-    p = Path(path)
-    try:
-        text = p.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise PlanError("plan file", str(p), "no such file") from None
-    except IsADirectoryError:
-        raise PlanError("plan file", str(p), "a plan file (TOML), not a folder") from None
-    except UnicodeDecodeError as exc:
-        raise PlanError("plan file", str(p), f"not UTF-8 text (byte {exc.start}); save the "
-                        "file as UTF-8") from None
-    except OSError as exc:
-        raise PlanError("plan file", str(p), f"a file that can be read ({exc.strerror})") \
-            from None
-    return read_plan_text(text, str(p))
+    text = read_input_text(path, field="plan file", what="a plan file (TOML)",
+                           limit=INPUT_LIMIT if max_size is None else max_size, error=PlanError)
+    return read_plan_text(text, str(path))
 
 
 def plan_vehicle(raw: Mapping[str, Any], source: str = "plan") -> str:
@@ -551,6 +547,8 @@ class _Checker:
         cargo = self.cargo(configuration)
         tanks, taxi, trip, seq, order = self.fuel()
         prepared_by = self.string("prepared_by")
+        if prepared_by is not None and len(prepared_by) > TEXT_MAX:  # the sheet's preparer
+            raise self.err("prepared_by", shown(prepared_by), f"at most {TEXT_MAX} characters")
         note = self.raw.get("note", "")
         if not isinstance(note, str):
             raise self.err("note", note, "expected a string")
@@ -934,7 +932,7 @@ def parse_plan(raw: Mapping[str, Any], vtype, *, source: str = "plan",
     return _Checker(raw, vtype, source, disabled_stations).parse()
 
 
-def load_plan(path: str | Path, vtype) -> Plan:
+def load_plan(path: str | Path, vtype, *, max_size: int | None = None) -> Plan:
     """Read and check a plan file in one call (the file must name a vehicle of ``vtype``)."""
-    return parse_plan(read_plan_file(path), vtype, source=str(path))
+    return parse_plan(read_plan_file(path, max_size=max_size), vtype, source=str(path))
 

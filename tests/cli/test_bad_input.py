@@ -8,6 +8,11 @@ alembic version, types, vehicles, ledger entries with their hashes, configuratio
 the same before and after. The readings are the invented ones of ``demo_fleet/README.md``;
 what is checked here is behaviour, not figures (common practice for CLI error tests).
 
+Bounded input (``ledger.files``, ``ledger.bounds``): devices, FIFOs, folders and files one
+byte over their limit; nesting past the parsers and at the 64-level bound; whole numbers past
+64 bits and numbers past 1e308 or absurd; texts longer than their column; NUL characters; and
+weighings whose empty mass is no mass of the type.
+
 The ledger is built once per database kind and copied for each case (a file copy for SQLite,
 ``CREATE DATABASE … TEMPLATE`` for PostgreSQL), so that the ``cli`` fixture of
 ``tests/conftest.py`` gets a fresh, populated database quickly: this module overrides
@@ -17,6 +22,8 @@ The ledger is built once per database kind and copied for each case (a file copy
 from __future__ import annotations
 
 import datetime as dt
+import json
+import os
 import shutil
 import uuid
 
@@ -130,17 +137,62 @@ def dump(url: str) -> dict:
     return out
 
 
+BAD_CSV = ("kind,entry_date,actor,reason,item,item_mass_kg,item_x_m\n"
+           "install,2025-02-01,qa,fit,lamp,1.5,2.0\n"
+           "install,2025-02-02,qa,fit,horn,nan,2.0\n")
+MiB = 1024 * 1024
+QA = {"entry_date": "2025-02-01", "actor": "qa", "reason": "fit"}
+LAMP = {"kind": "install", **QA, "item": "lamp", "item_mass_kg": 1.5, "item_x_m": 2.0}
+PLAN_HEAD = 'plan_format = 1\nvehicle = "KVA-101"\n'
+CARGO = PLAN_HEAD + '[[cargo]]\nstation = "baggage"\nmass = '
+
+
+def _history(*entries: dict) -> str:
+    """A JSON history on one line (so every entry is on line 1)."""
+    return json.dumps({"format": "wbledger-history", "version": 1, "entries": list(entries)})
+
+
+def _padded(text: str, size: int) -> str:
+    """``text`` with a TOML comment added to make it exactly ``size`` bytes."""
+    pad = size - len(text.encode()) - 2
+    return text + "#" + "x" * pad + "\n"
+
+
 @pytest.fixture
 def files(tmp_path):
     """Broken files of every kind, in a folder of this case."""
     (tmp_path / "folder").mkdir()
+    os.mkfifo(tmp_path / "fifo.toml")  # nothing writes to it: reading it would wait for ever
     (tmp_path / "garbage.toml").write_bytes(b"\xff\xfe\x00\x01 not text")
     (tmp_path / "empty.toml").write_text("")
     (tmp_path / "syntax.toml").write_text('plan_format = 1\nvehicle = "KVA-101"\n[[person]\n')
-    (tmp_path / "bad.csv").write_text(
-        "kind,entry_date,actor,reason,item,item_mass_kg,item_x_m\n"
-        "install,2025-02-01,qa,fit,lamp,1.5,2.0\n"
-        "install,2025-02-02,qa,fit,horn,nan,2.0\n")
+    (tmp_path / "bad.csv").write_text(BAD_CSV)
+    # One byte over the 1 MiB limit of type files and plans (the file is otherwise valid).
+    (tmp_path / "big.toml").write_text(_padded(P4.read_text(encoding="utf-8"), MiB + 1))
+    (tmp_path / "big-plan.toml").write_text(_padded(PLAN.read_text(encoding="utf-8"), MiB + 1))
+    # Nesting: beyond what the JSON parser follows; 64 levels (the most) and 65 in a plan.
+    (tmp_path / "deep.json").write_text('{"entries": ' + "[" * 100_000 + "]" * 100_000 + "}")
+    for name, arrays in (("deep-64.toml", 63), ("deep-65.toml", 64)):
+        (tmp_path / name).write_text(PLAN_HEAD + "x = " + "[" * arrays + "]" * arrays + "\n")
+    # Numbers: a whole number past 64 bits, one past 1e308 (infinity), one absurd but finite.
+    (tmp_path / "bigint.json").write_text(_history({**LAMP, "seq": 10**30}))
+    (tmp_path / "inf.json").write_text(_history(LAMP).replace('"item_mass_kg": 1.5',
+                                                              '"item_mass_kg": 1e309'))
+    (tmp_path / "absurd.json").write_text(_history({**LAMP, "item_x_m": 1e300}))
+    (tmp_path / "bigint.toml").write_text(CARGO + str(10**30) + "\n")
+    (tmp_path / "inf.toml").write_text(CARGO + "1e309\n")
+    # Texts: longer than their column; NUL characters.
+    (tmp_path / "long.json").write_text(_history({**LAMP, "item": "x" * 201}))
+    (tmp_path / "long-by.toml").write_text(PLAN_HEAD + f'prepared_by = "{"p" * 201}"\n')
+    (tmp_path / "nul.json").write_text(_history({**LAMP, "actor": "q\u0000a"}))
+    (tmp_path / "nul.csv").write_text(BAD_CSV.replace(",qa,fit,lamp", ",q\x00a,fit,lamp"))
+    (tmp_path / "nul-type.toml").write_text(P4.read_text(encoding="utf-8").replace(
+        'title = "', 'title = "\\u0000', 1))
+    (tmp_path / "nul-plan.toml").write_text(PLAN_HEAD + 'prepared_by = "R.\\u0000"\n')
+    # A weighing whose empty mass is no mass of this type (the other fields are fine).
+    (tmp_path / "heavy.json").write_text(_history({
+        "kind": "weighing", **QA, "empty_mass_kg": 100000.0, "empty_mx_kgm": 250000.0,
+        "empty_my_kgm": 0.0}))
     return tmp_path
 
 
@@ -149,9 +201,9 @@ def files(tmp_path):
 CASES = [
     # --- type and vehicle ------------------------------------------------------------------
     (["type", "import", "{tmp}/missing.toml"],
-     "Error: no type file '{tmp}/missing.toml'. check the path", 2),
+     "Error: file = '{tmp}/missing.toml': no such file", 2),
     (["type", "import", "{tmp}/folder"],
-     "Error: file = '{tmp}/folder': expected a type file, got a folder", 2),
+     "Error: file = '{tmp}/folder': a type file, not a folder", 2),
     (["type", "import", "{tmp}/garbage.toml"],
      "Error: file = '{tmp}/garbage.toml': not UTF-8 text (byte 0); save the file as UTF-8", 2),
     (["type", "import", "{tmp}/empty.toml"],
@@ -214,6 +266,93 @@ CASES = [
      "Error: --output = '{tmp}/folder': a file name, not a folder", 2),
     (["import-history", "KVA-101", "{tmp}/bad.csv"],
      "Error: bad.csv line 3: item_mass_kg = 'nan': the item's mass in kg, 0 or more", 2),
+    # --- bounded input (files, nesting, numbers, texts, plausible weighings) -----------------
+    (["type", "import", "/dev/zero"],
+     "Error: file = '/dev/zero': a regular file, not a character device", 2),
+    (["check", "/dev/zero"],
+     "Error: plan file = '/dev/zero': a regular file, not a character device", 2),
+    (["import-history", "KVA-101", "/dev/zero", "--format", "json"],
+     "Error: FILE = '/dev/zero': a regular file, not a character device", 2),
+    (["type", "import", "{tmp}/fifo.toml"],
+     "Error: file = '{tmp}/fifo.toml': a regular file, not a FIFO (named pipe)", 2),
+    (["sheet", "amend", "1", "--plan", "{tmp}/fifo.toml"],
+     "Error: plan file = '{tmp}/fifo.toml': a regular file, not a FIFO (named pipe)", 2),
+    (["inertia", "KVA-101", "--plan", "{tmp}/folder"],
+     "Error: plan file = '{tmp}/folder': a plan file (TOML), not a folder", 2),
+    (["import-history", "KVA-101", "{tmp}/folder", "--format", "csv"],
+     "Error: FILE = '{tmp}/folder': a history file (CSV), not a folder", 2),
+    (["type", "import", "{tmp}/big.toml"],
+     "Error: file = '{tmp}/big.toml': a type file of at most 1 MiB; this one has 1,048,577 "
+     "bytes. Give --max-size to raise the limit (e.g. --max-size 2MiB)", 2),
+    (["check", "{tmp}/big-plan.toml"],
+     "Error: plan file = '{tmp}/big-plan.toml': a plan file (TOML) of at most 1 MiB; this one "
+     "has 1,048,577 bytes. Give --max-size to raise the limit (e.g. --max-size 2MiB)", 2),
+    (["import-history", "KVA-101", "{tmp}/bad.csv", "--max-size", "100"],
+     f"Error: FILE = '{{tmp}}/bad.csv': a history file (CSV) of at most 100 bytes; this one "
+     f"has {len(BAD_CSV)} bytes. Give --max-size to raise the limit (e.g. --max-size 1KiB)", 2),
+    (["import-history", "KVA-101", "{tmp}/bad.csv", "--max-size", "2 MB"],
+     "Error: --max-size = '2 MB': a size in bytes, KiB, MiB or GiB, e.g. 2MiB", 2),
+    (["type", "import", str(P4), "--max-size", "8GiB"],
+     "Error: --max-size = '8GiB': a size from 1 byte to 4 GiB", 2),
+    (["import-history", "KVA-101", "{tmp}/deep.json"],
+     "Error: deep.json: document = (nested too deep to read): at most 64 levels of nesting", 2),
+    (["check", "{tmp}/deep-64.toml"],  # 64 levels pass the bound; the plan has no key x
+     "Error: {tmp}/deep-64.toml: x = " + "[" * 63 + "]" * 63 + ": unknown key; allowed "
+     "here: plan_format, vehicle, configuration, category, standard_masses, prepared_by, "
+     "axle_rules, note, person, cargo, fuel", 2),
+    (["check", "{tmp}/deep-65.toml"],
+     "Error: {tmp}/deep-65.toml: x" + "[0]" * 13 + "… = (nested 65 levels deep): at most 64 "
+     "levels of nesting", 2),
+    (["import-history", "KVA-101", "{tmp}/bigint.json"],
+     "Error: bigint.json: entries[0].seq = (a whole number of about 31 digits): a number from "
+     "-1e+15 to 1e+15", 2),
+    (["import-history", "KVA-101", "{tmp}/inf.json"],
+     "Error: inf.json line 1: item_mass_kg = inf: the item's mass in kg, 0 or more", 2),
+    (["import-history", "KVA-101", "{tmp}/absurd.json"],
+     "Error: absurd.json: entries[0].item_x_m = 1e+300: a number from -1e+15 to 1e+15", 2),
+    (["check", "{tmp}/bigint.toml"],
+     "Error: {tmp}/bigint.toml: cargo[0].mass = (a whole number of about 31 digits): a number "
+     "from -1e+15 to 1e+15", 2),
+    (["check", "{tmp}/inf.toml"],
+     "Error: {tmp}/inf.toml: cargo[0].mass = inf: not a finite number; a mass must be a finite "
+     "number", 2),
+    (["correct", "KVA-101", str(2**31), *R],
+     "Error: Invalid value for 'SEQ': Input should be less than or equal to 2147483647 (see "
+     "`wbledger correct --help`)", 2),
+    (["sheet", "show", str(10**30)],
+     "Error: Invalid value for 'ID': Input should be less than or equal to 2147483647 (see "
+     "`wbledger sheet show --help`)", 2),
+    (["import-history", "KVA-101", "{tmp}/long.json"],
+     f"Error: long.json line 1: item = '{'x' * 40}…': at most 200 characters", 2),
+    (["vehicle", "add", "KVA-102", "--type", "KV-P4", "--serial", "s" * 121],
+     f"Error: --serial = '{'s' * 40}…': at most 120 characters", 2),
+    (["sheet", "{plan}", "--save", "--by", "b" * 201],
+     f"Error: --by = '{'b' * 40}…': at most 200 characters", 2),
+    (["check", "{tmp}/long-by.toml"],
+     f"Error: {{tmp}}/long-by.toml: prepared_by = '{'p' * 40}…': at most 200 characters", 2),
+    (["import-history", "KVA-101", "{tmp}/nul.json"],
+     "Error: nul.json: entries[0].actor = 'q\\x00a': text without NUL characters", 2),
+    (["import-history", "KVA-101", "{tmp}/nul.csv"],
+     "Error: nul.csv line 2: actor = 'q\\x00a': text without NUL characters", 2),
+    (["type", "import", "{tmp}/nul-type.toml"],
+     "Error: {tmp}/nul-type.toml: vehicle.title = '\\x00Kestrel KV-P4 four-seat single-engine "
+     "p…': text without NUL characters", 2),
+    (["sheet", "{tmp}/nul-plan.toml", "--save"],
+     "Error: {tmp}/nul-plan.toml: prepared_by = 'R.\\x00': text without NUL characters", 2),
+    # KV-P4's largest maximum mass is its maximum ramp mass, 2458 lb = 1114.9 kg (demo type).
+    (["weigh", "KVA-101", "--reading", "nose=480000 lb", "--reading", "left main=572000 lb",
+      "--reading", "right main=576500 lb", *R],
+     "Error: empty mass = '1628500.0 lb': an empty mass above 0 and at most the largest "
+     "maximum mass of type KV-P4, 2458.0 lb (maximum ramp mass). The readings were nose=480000 "
+     "lb, left main=572000 lb, right main=576500 lb: check each, and the unit of the scales", 2),
+    (["weigh", "KVA-101", "--reading", "nose=1e308 lb", "--reading", "left main=1e308 lb",
+      "--reading", "right main=1e308 lb", *R],
+     "Error: empty mass = 'inf lb': an empty mass above 0 and at most the largest maximum mass "
+     "of type KV-P4, 2458.0 lb (maximum ramp mass). The readings were nose=1e308 lb, left "
+     "main=1e308 lb, right main=1e308 lb: check each, and the unit of the scales", 2),
+    (["import-history", "KVA-101", "{tmp}/heavy.json"],
+     "Error: heavy.json line 1: empty_mass_kg = 100000: an empty mass above 0 and at most the "
+     "largest maximum mass of type KV-P4, 1114.9 kg (maximum ramp mass)", 2),
     # --- configurations ---------------------------------------------------------------------
     (["config", "define", "x", "--type", "NOPE", "--install", "a=1 kg@1 m"],
      "Error: no vehicle type 'NOPE'. Known types: KV-P4, KV-TR75", 2),
@@ -314,6 +453,22 @@ def test_bad_input_is_one_line_and_writes_nothing(cli, files, args, expected, co
     # Nothing left behind either: no database file or folder made by a failed command.
     assert not (files / "no-folder").exists()
     assert not (files / "new.sqlite3").exists()
+
+
+def test_max_size_raises_the_limit(cli, files):
+    """A file over the default limit is read with --max-size; a file of exactly the limit is
+    read without complaint (the limit is inclusive)."""
+    res = cli("type", "import", files / "big.toml", "--max-size", "2MiB")
+    # The padding is a comment: the same type as the one imported, so no new revision.
+    assert (res.exit_code, res.stderr) == (0, "")
+    assert res.stdout == f"{files / 'big.toml'}: type KV-P4 unchanged, already revision 1\n"
+    res = cli("check", files / "big-plan.toml", "--max-size", "1025KiB")
+    assert (res.exit_code, res.stderr) == (0, "")  # the demo plan is in limits
+    before = dump(cli.db_url)
+    res = cli("import-history", "KVA-101", files / "bad.csv", "--max-size", str(len(BAD_CSV)))
+    assert (res.exit_code, res.stderr) == (
+        2, "Error: bad.csv line 3: item_mass_kg = 'nan': the item's mass in kg, 0 or more\n")
+    assert dump(cli.db_url) == before
 
 
 def _edit_entry(cli, seq: int, assignment: str, registration: str = "KVA-101") -> None:

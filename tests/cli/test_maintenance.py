@@ -278,8 +278,7 @@ def test_import_bad_row_names_line_and_field(ready, db, tmp_path):
     assert snapshot(db) == before
     r = ready("import-history", "KV-101", str(tmp_path / "missing.csv"))
     assert r.exit_code == 2
-    assert r.stderr == (f"Error: FILE = '{tmp_path / 'missing.csv'}': a readable UTF-8 file "
-                        "(FileNotFoundError)\n")
+    assert r.stderr == f"Error: FILE = '{tmp_path / 'missing.csv'}': no such file\n"
     r = ready("import-history", "KV-101", str(tmp_path / "notes.txt"))
     assert r.stderr.startswith("Error: --format = 'txt': csv or json")
 

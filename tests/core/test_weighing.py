@@ -252,3 +252,25 @@ def test_pitched_weighing_rejects_small_angle_and_mass_mismatch():
                               "removed")
     with pytest.raises(InputError, match="one pitch angle per pitched weighing"):
         vertical_cg_from_pitch(3.0, [3.05, 3.1], math.radians(5.0))
+
+
+# --- plausible empty mass -----------------------------------------------------------------------
+
+@pytest.mark.parametrize("mass, largest, plausible", [
+    (700.0, 1114.9, True),           # a light aircraft's empty mass under its ramp mass
+    (1114.9, 1114.9, True),          # the limit itself is allowed (inclusive)
+    (1114.9 * (1 + 1e-12), 1114.9, False),
+    (0.0, 1114.9, False),            # an empty vehicle has a mass
+    (-1.0, None, False),
+    (math.inf, None, False),         # no stated limit: only finite and above 0
+    (math.nan, 1114.9, False),
+    (1e9, None, True),
+])
+def test_plausible_empty_mass(mass, largest, plausible):
+    # Common practice: the empty weight is a part of every loaded weight the type's limits
+    # bound, so an empty mass above the largest maximum mass is a misread scale or a wrong
+    # unit, not a vehicle (PLAUSIBLE_EMPTY_MULTIPLE = 1).
+    from ledger.core.weighing import PLAUSIBLE_EMPTY_MULTIPLE, plausible_empty_mass
+
+    assert PLAUSIBLE_EMPTY_MULTIPLE == 1.0
+    assert plausible_empty_mass(mass, largest) is plausible

@@ -740,3 +740,10 @@ def test_running_state_equals_direct_sum(tmp_path):
     with session_scope(eng) as s:
         assert all(r.ok for r in verify_all(s))
     eng.dispose()
+
+
+def test_json_history_rows_are_numbered_by_the_line_they_start_on():
+    # An entry may span lines and share a line with the next; blank lines count.
+    text = ('{"format": "wbledger-history", "version": 1,\n"entries": [\n'
+            '{"kind": "weighing"},\n\n{"kind":\n "install"}, {"kind": "remove"}\n]}\n')
+    assert [line for line, _ in transfer.parse_history(text, "json")] == [3, 5, 6]

@@ -476,9 +476,9 @@ def test_parse_type_needs_a_table():
 
 
 def test_missing_and_unreadable_files(tmp_path):
-    with pytest.raises(NotFoundError) as info:
+    with pytest.raises(TypeDataError) as info:
         load_type_file(tmp_path / "nope.toml")
-    assert str(info.value) == f"no type file '{tmp_path / 'nope.toml'}'. check the path"
+    assert str(info.value) == f"file = '{tmp_path / 'nope.toml'}': no such file"
     binary = tmp_path / "binary.toml"
     binary.write_bytes(b"format_version = 1\n\xff\xfe")
     with pytest.raises(TypeDataError) as info:
