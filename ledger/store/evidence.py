@@ -521,7 +521,7 @@ def _chains(session: Session, ids, registrations: dict[int, str], type_names: di
 def _can_fork(session: Session, ids) -> bool:
     from ledger.core._parallel import cores
 
-    url = session.get_bind().url
+    url = session.connection().engine.url
     if not hasattr(os, "fork") or cores() < 2 or url.get_backend_name() not in (
             "sqlite", "postgresql"):
         return False
@@ -544,7 +544,7 @@ def _all_chains(session: Session, ids, registrations, type_names, remember: bool
         return _chains(session, ids, registrations, type_names, remember)
     every = sorted(registrations) if ids is None else sorted(ids)
     mine, theirs = every[: len(every) // 2], every[len(every) // 2:]
-    url = session.get_bind().url.render_as_string(hide_password=False)
+    url = session.connection().engine.url.render_as_string(hide_password=False)
     read_fd, write_fd = os.pipe()
     pid = os.fork()
     if pid == 0:  # the child
