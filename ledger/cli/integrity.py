@@ -52,6 +52,9 @@ def verify(ctx: typer.Context,
         raise InputError("--public-key", str(public_key), "only with --against FILE")
     if exact and against is None:
         raise InputError("--exact", "true", "only with --against FILE")
+    if against is not None and registration is not None:
+        raise InputError("REG", registration, "none with --against: a checkpoint is compared "
+                         "with the whole database")
     saved = cp.read(against) if against is not None else None
     with session_scope(common.state(ctx).engine()) as session:
         report = verify_fleet(session, registration, expect=hashes)

@@ -33,7 +33,7 @@ __all__ = [
     "REGISTRATION_PATTERN",
 ]
 
-REGISTRATION_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9-]{0,39}$")
+REGISTRATION_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9-]{0,39}\Z")
 
 
 def _now() -> dt.datetime:

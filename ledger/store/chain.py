@@ -304,11 +304,10 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
         stored = row[n_cols]
         expected_seq = count + 1
         count += 1
-        try:
-            seq = int(row[_I_SEQ])
-        except (ValueError, TypeError):
+        seq = row[_I_SEQ]
+        if seq.__class__ is not int:  # text, or 2.5 that int() would quietly make 2
             return ChainReport(registration, count, None, None, False, expected_seq,
-                               f"entry {expected_seq}: its seq {row[_I_SEQ]!r} is not a number")
+                               f"entry {expected_seq}: its seq {seq!r} is not a whole number")
 
         def bad(problem: str, at: int = seq) -> ChainReport:
             return ChainReport(registration, count, None, None, False, at, problem)

@@ -205,7 +205,26 @@ def read(path: str | os.PathLike) -> dict:
     if _digest(doc) != doc["digest"]:
         raise ChainError(f"the checkpoint {path} was changed after it was written: its digest "
                          "does not match its content")
+    for key, fields in _LAYOUT.items():
+        items = doc[key]
+        if not isinstance(items, list) or not all(
+                isinstance(i, dict) and all(isinstance(i.get(f), kinds)
+                                            and not isinstance(i.get(f), bool)
+                                            for f, kinds in fields.items()) for i in items):
+            raise InputError("--against", str(path), f"a checkpoint file ({FORMAT}); its "
+                             f"{key!r} are not as wbledger writes them")
     return doc
+
+
+_TEXT, _COUNT, _HASH = (str,), (int,), (str, type(None))
+#: What each item of a checkpoint holds (checked on read, before anything is compared).
+_LAYOUT = {
+    "types": {"type": _TEXT, "revisions": _COUNT, "head_hash": _HASH},
+    "vehicles": {"registration": _TEXT, "record_hash": _TEXT, "entries": _COUNT,
+                 "head_hash": _HASH, "sheets": _COUNT, "sheet_head_hash": _HASH},
+    "configurations": {"owner_kind": _TEXT, "owner": _TEXT, "name": _TEXT, "version": _COUNT,
+                       "head_hash": _TEXT},
+}
 
 
 @dataclass(frozen=True)
@@ -326,4 +345,21 @@ def compare_with(session: Session, doc: Mapping[str, Any], now, *,
         elif versions and max(versions) > c.get("version"):
             added.append(f"configuration {c.get('name')!r} of {c.get('owner')}: "
                          f"{_plural(max(versions) - c.get('version'), 'version')}")
+    known = {(c.get("owner_kind"), c.get("owner"), c.get("name"))
+             for c in doc.get("configurations") or []}
+    added += [f"configuration {name!r} of {owner}: new"
+              for kind, owner, name in _configuration_names(session) if (kind, owner, name)
+              not in known]
     return Comparison(tuple(problems), tuple(added), said)
+
+
+def _configuration_names(session: Session) -> list[tuple[str, str, str]]:
+    """(owner kind, owner, name) of every configuration stored, sorted."""
+    by_type = session.execute(select(VehicleTypeRow.name, ConfigurationRow.name).distinct()
+                              .join(ConfigurationRow, ConfigurationRow.type_id
+                                    == VehicleTypeRow.id)).all()
+    by_vehicle = session.execute(select(VehicleRow.registration, ConfigurationRow.name)
+                                 .distinct().join(ConfigurationRow, ConfigurationRow.vehicle_id
+                                                  == VehicleRow.id)).all()
+    return sorted([("type", o, n) for o, n in by_type]
+                  + [("vehicle", o, n) for o, n in by_vehicle])

@@ -104,15 +104,21 @@ def _type_chain_problem(name: str, revs: Sequence[Any], *, parse: bool = True) -
     """Why the revisions of type ``name`` (in revision order) do not verify, or None."""
     prev = GENESIS_HASH
     for k, r in enumerate(revs, 1):
+        if r.revision.__class__ is not int:
+            return f"revision {k}: its number {r.revision!r} is not a whole number"
         if r.revision != k:
             return (f"revision {k} is missing" if r.revision > k
                     else f"revision {r.revision} appears twice")
         if r.prev_hash != prev:
             return f"revision {k} does not follow revision {k - 1} (prev_hash)"
-        seal = type_revision_seal(type_name=name, revision=r.revision,
-                                  content_sha256=r.content_sha256, source_name=r.source_name,
-                                  source_text=r.source_text, spec_json=r.spec_json,
-                                  imported_at=r.imported_at, prev_hash=r.prev_hash)
+        try:
+            seal = type_revision_seal(type_name=name, revision=r.revision,
+                                      content_sha256=r.content_sha256,
+                                      source_name=r.source_name, source_text=r.source_text,
+                                      spec_json=r.spec_json, imported_at=r.imported_at,
+                                      prev_hash=r.prev_hash)
+        except (TypeError, ValueError, AttributeError) as exc:
+            return f"revision {k}: a stored value cannot be read ({exc})"
         if seal != r.row_hash:
             return (f"revision {k} does not match its seal (its limits, file text, name or "
                     "date were changed after import)")
@@ -157,8 +163,11 @@ def checked_type(session: Session, type_id: int, revision: int | None = None):
 def _vehicle_problem(v, type_name: str | None) -> str | None:
     if type_name is None:
         return "its type link points at no type"
-    seal = vehicle_seal(registration=v.registration, type_name=type_name, serial=v.serial,
-                        note=v.note, created_at=v.created_at)
+    try:
+        seal = vehicle_seal(registration=v.registration, type_name=type_name, serial=v.serial,
+                            note=v.note, created_at=v.created_at)
+    except (TypeError, ValueError, AttributeError) as exc:
+        return f"a stored value cannot be read ({exc})"
     if seal != v.row_hash:
         return ("its record does not match its seal (its registration, type link or details "
                 "were changed)")
@@ -173,12 +182,29 @@ def _guards_problem(session: Session) -> str | None:
     return None
 
 
+def _duplicates(session: Session, *, registration: str | None = None,
+                type_name: str | None = None) -> list[str]:
+    """Names that more than one row carries (a UNIQUE constraint removed by hand): a second
+    type of the same name, or a second vehicle of the same registration, could take the place
+    of the real one without changing a seal. Of the given ones only, or of all."""
+    out = []
+    for col, what, only in ((VehicleTypeRow.name, "type", type_name),
+                            (VehicleRow.registration, "vehicle", registration)):
+        query = select(col).group_by(col).having(func.count() > 1)
+        if only is not None:
+            query = query.where(col == only)
+        out += [f"more than one {what} is named {name!r} (a uniqueness rule was removed)"
+                for name in session.scalars(query)]
+    return out
+
+
 def require_vehicle(session: Session, vehicle) -> ChainReport:
     """Refuse (ChainError) to build figures on a vehicle whose evidence does not verify.
 
     Checks the vehicle's record, its type's chain of revisions, its ledger chain, and that the
     ledger head its newest saved sheet was built on is still in the chain. (Missing append-only
-    guards are reported by ``verify``; they do not stop a vehicle whose seals all verify.) ``vehicle`` has ``id``, ``registration`` and ``type_id``. Returns the ledger report.
+    guards are reported by ``verify``; they do not stop a vehicle whose seals all verify.)
+    ``vehicle`` has ``id``, ``registration`` and ``type_id``. Returns the ledger report.
     """
     reg = vehicle.registration
 
@@ -191,6 +217,9 @@ def require_vehicle(session: Session, vehicle) -> ChainReport:
     problem = _vehicle_problem(v, tname)
     if problem:
         raise refuse(f"vehicle {reg}: {problem}")
+    twins = _duplicates(session, registration=v.registration, type_name=tname)
+    if twins:
+        raise refuse(twins[0])
     checked_type(session, v.type_id)
     report = verify_vehicle(session, reg)
     if not report.ok:
@@ -282,47 +311,59 @@ def _sheet_rows(session: Session, vehicle_ids=None):
 def _sheet_chain(rows: Iterable[Any], registration: str, type_names: dict[int, str],
                  seen: set[str] | None) -> tuple[int, str | None, str | None]:
     """(count, head hash, first problem) of one vehicle's saved sheets, in id order."""
-    from ledger.store.sheets import sheet_content_hash
-
     prev = GENESIS_HASH
     hashes: dict[int, str] = {}
     count = 0
     for s in rows:
         count += 1
-        where = f"saved sheet {s.id}"
-        if s.prev_hash != prev:
-            return count, None, (f"{where} does not follow the sheet saved before it "
-                                 "(a sheet was removed, or inserted)")
-        content = sheet_content_hash(
-            vehicle_id=s.vehicle_id, type_revision_id=s.type_revision_id, entry_id=s.entry_id,
-            amends_id=s.amends_id, created_at=s.created_at, preparer=s.preparer,
-            verdict=s.verdict, plan_json=s.plan_json, result_json=s.result_json)
-        if content != s.content_sha256:
-            return count, None, (f"{where}: its content does not match its hash (its plan, "
-                                 "figures, verdict, preparer or links were changed)")
-        if s.e_hash is None or s.e_vehicle != s.vehicle_id or s.e_hash != s.entry_hash:
-            return count, None, (f"{where} was built on ledger head {s.entry_hash[:12]}…, "
-                                 "which is no longer in the chain: entries were removed or "
-                                 "replaced")
-        if s.r_hash is None:
-            return count, None, f"{where}: the type revision it was checked against is gone"
-        amends_hash = None
-        if s.amends_id is not None:
-            amends_hash = hashes.get(s.amends_id)
-            if amends_hash is None:
-                return count, None, (f"{where} amends sheet {s.amends_id}, which is not an "
-                                     f"earlier sheet of {registration}")
-        seal = sheet_seal(registration=registration, content_sha256=s.content_sha256,
-                          type_name=type_names.get(s.r_type, "?"), type_revision=s.r_revision,
-                          type_hash=s.r_hash, entry_seq=s.e_seq, entry_hash=s.entry_hash,
-                          amends_hash=amends_hash, prev_hash=s.prev_hash)
-        if seal != s.row_hash:
-            return count, None, (f"{where} does not match its seal (its vehicle, type "
-                                 "revision, ledger head or amended sheet were changed)")
+        try:
+            problem = _sheet_problem(s, prev, hashes, registration, type_names)
+        except (TypeError, ValueError, AttributeError) as exc:
+            problem = f"saved sheet {s.id}: a stored value cannot be read ({exc})"
+        if problem:
+            return count, None, problem
         hashes[s.id] = prev = s.row_hash
         if seen is not None:
             seen.add(s.row_hash)
     return count, (prev if count else None), None
+
+
+def _sheet_problem(s, prev: str, hashes: dict[int, str], registration: str,
+                   type_names: dict[int, str]) -> str | None:
+    """Why one saved sheet (a row of :func:`_sheet_rows`) does not verify, or None; ``prev``
+    is the seal of the sheet before it, ``hashes`` the seals of the earlier ones by id."""
+    from ledger.store.sheets import sheet_content_hash
+
+    where = f"saved sheet {s.id}"
+    if s.prev_hash != prev:
+        return (f"{where} does not follow the sheet saved before it (a sheet was removed, or "
+                "inserted)")
+    content = sheet_content_hash(
+        vehicle_id=s.vehicle_id, type_revision_id=s.type_revision_id, entry_id=s.entry_id,
+        amends_id=s.amends_id, created_at=s.created_at, preparer=s.preparer,
+        verdict=s.verdict, plan_json=s.plan_json, result_json=s.result_json)
+    if content != s.content_sha256:
+        return (f"{where}: its content does not match its hash (its plan, figures, verdict, "
+                "preparer or links were changed)")
+    if s.e_hash is None or s.e_vehicle != s.vehicle_id or s.e_hash != s.entry_hash:
+        return (f"{where} was built on ledger head {str(s.entry_hash)[:12]}…, which is no "
+                "longer in the chain: entries were removed or replaced")
+    if s.r_hash is None:
+        return f"{where}: the type revision it was checked against is gone"
+    amends_hash = None
+    if s.amends_id is not None:
+        amends_hash = hashes.get(s.amends_id)
+        if amends_hash is None:
+            return (f"{where} amends sheet {s.amends_id}, which is not an earlier sheet of "
+                    f"{registration}")
+    seal = sheet_seal(registration=registration, content_sha256=s.content_sha256,
+                      type_name=type_names.get(s.r_type, "?"), type_revision=s.r_revision,
+                      type_hash=s.r_hash, entry_seq=s.e_seq, entry_hash=s.entry_hash,
+                      amends_hash=amends_hash, prev_hash=s.prev_hash)
+    if seal != s.row_hash:
+        return (f"{where} does not match its seal (its vehicle, type revision, ledger head or "
+                "amended sheet were changed)")
+    return None
 
 
 def sheet_problem(session: Session, sheet_id: int) -> str | None:
@@ -403,8 +444,8 @@ class EvidenceReport:
         out = [self.guards_problem] if self.guards_problem else []
         out += [f"type {t.name}: {t.problem}" for t in self.types if not t.ok]
         out += [f"{v.registration}: {v.problem}" for v in self.vehicles if not v.ok]
-        out += [f"the recorded hash {h[:12]}… is in no chain: rows were removed or replaced"
-                for h, found in self.expected if not found]
+        out += [f"the recorded hash {h[:12]}… is in none of the chains checked: rows were "
+                "removed or replaced" for h, found in self.expected if not found]
         out += list(self.other_problems)
         return out
 
@@ -461,6 +502,7 @@ def verify_fleet(session: Session, registration: str | None = None, *,
                                   revs[-1].row_hash if revs else None, problem))
         if seen is not None and problem is None:
             seen.update(r.row_hash for r in revs)
+            seen.update(r.content_sha256 for r in revs)  # "Type data" printed on a sheet
 
     registrations = {v.id: v.registration for v in vehicles}
     ledgers, sheets, found_hashes = _all_chains(session, ids, registrations, type_names,
@@ -469,12 +511,17 @@ def verify_fleet(session: Session, registration: str | None = None, *,
         seen |= found_hashes
     cfg_problems, cfg_counts = _configuration_problems(session, type_names, registrations)
 
-    other = []
-    orphans = sorted(set(ledgers) - set(registrations)) if registration is None else []
-    other += [f"ledger entries of vehicle id {vid} belong to no vehicle" for vid in orphans]
-    for (kind, oid), probs in cfg_problems.items():
-        if kind == "type" and registration is None:
-            other += probs
+    other = _duplicates(session) if registration is None else _duplicates(
+        session, registration=registration,
+        type_name=type_names.get(vehicles[0].type_id) if vehicles else None)
+    if registration is None:  # rows that belong to nothing (their owner deleted by hand)
+        other += [f"ledger entries of vehicle id {vid} belong to no vehicle"
+                  for vid in sorted(set(ledgers) - set(registrations))]
+        other += [f"saved sheets of vehicle id {vid} belong to no vehicle"
+                  for vid in sorted(set(sheets) - set(registrations))]
+        for (kind, oid), probs in sorted(cfg_problems.items()):
+            if kind == "type" or oid not in registrations:
+                other += probs
     out = []
     for v in vehicles:
         problems = []

@@ -37,6 +37,31 @@ RECORDED_BY = {"ledger_entries": "actor", "loading_sheets": "preparer",
                "configurations": "created_by"}
 
 
+_PG_BODIES = {
+    _PG_FUNCTION: (" BEGIN RAISE EXCEPTION 'wbledger: % on % is refused: the table is "
+                   "append-only', TG_OP, TG_TABLE_NAME USING ERRCODE = 'insufficient_privilege';"
+                   " END "),
+    # Who wrote a row is the database session's user, not a name typed in: checked here so
+    # that a member of a wbledger group role cannot record in someone else's name. The owner
+    # (who runs migrations and imports histories recorded elsewhere) is not held to it.
+    _PG_RECORDER: (" DECLARE owner oid; BEGIN "
+                   "SELECT relowner INTO owner FROM pg_class WHERE oid = TG_RELID; "
+                   "IF NOT pg_has_role(current_user, owner, 'MEMBER') "
+                   "AND (to_jsonb(NEW) ->> TG_ARGV[0]) IS DISTINCT FROM current_user::text THEN "
+                   "RAISE EXCEPTION 'wbledger: % of a new row of % must be the database user "
+                   "%', TG_ARGV[0], TG_TABLE_NAME, current_user USING ERRCODE = "
+                   "'insufficient_privilege'; END IF; RETURN NEW; END "),
+}
+
+
+def _sqlite_sql(table: str) -> dict[str, str]:
+    upd, dele = _sqlite_names(table)
+    return {upd: f"CREATE TRIGGER {upd} BEFORE UPDATE ON {table} BEGIN SELECT RAISE(ABORT, "
+                 f"'wbledger: {table} is append-only; rows are never updated'); END",
+            dele: f"CREATE TRIGGER {dele} BEFORE DELETE ON {table} BEGIN SELECT RAISE(ABORT, "
+                  f"'wbledger: {table} is append-only; rows are never deleted'); END"}
+
+
 def _sqlite_names(table: str) -> tuple[str, str]:
     return f"{table}_append_only_update", f"{table}_append_only_delete"
 
@@ -49,36 +74,17 @@ def install(conn: Connection, tables=GUARDED_TABLES) -> None:
     """Create the guards of ``tables`` (the trigger function too, on PostgreSQL)."""
     if conn.dialect.name == "sqlite":
         for t in tables:
-            upd, dele = _sqlite_names(t)
-            conn.exec_driver_sql(
-                f"CREATE TRIGGER {upd} BEFORE UPDATE ON {t} BEGIN SELECT RAISE(ABORT, "
-                f"'wbledger: {t} is append-only; rows are never updated'); END")
-            conn.exec_driver_sql(
-                f"CREATE TRIGGER {dele} BEFORE DELETE ON {t} BEGIN SELECT RAISE(ABORT, "
-                f"'wbledger: {t} is append-only; rows are never deleted'); END")
+            for sql in _sqlite_sql(t).values():
+                conn.exec_driver_sql(sql)
         return
     # Each function fixes its own search path: a user who may create objects in some schema
     # (everyone could in public before PostgreSQL 15) could otherwise put a look-alike of
     # pg_has_role, to_jsonb or an operator first on the session's path and pass the check.
-    conn.exec_driver_sql(
-        f"CREATE OR REPLACE FUNCTION {_PG_FUNCTION}() RETURNS trigger LANGUAGE plpgsql "
-        f"SET search_path = {_PG_PATH} AS $$ "
-        # (%% is the driver's escape for the format's %)
-        "BEGIN RAISE EXCEPTION 'wbledger: %% on %% is refused: the table is append-only', "
-        "TG_OP, TG_TABLE_NAME USING ERRCODE = 'insufficient_privilege'; END $$")
-    # Who wrote a row is the database session's user, not a name typed in: checked here so
-    # that a member of a wbledger group role cannot record in someone else's name. The owner
-    # (who runs migrations and imports histories recorded elsewhere) is not held to it.
-    conn.exec_driver_sql(
-        f"CREATE OR REPLACE FUNCTION {_PG_RECORDER}() RETURNS trigger LANGUAGE plpgsql "
-        f"SET search_path = {_PG_PATH} AS $$ "
-        "DECLARE owner oid; BEGIN "
-        "SELECT relowner INTO owner FROM pg_class WHERE oid = TG_RELID; "
-        "IF NOT pg_has_role(current_user, owner, 'MEMBER') "
-        "AND (to_jsonb(NEW) ->> TG_ARGV[0]) IS DISTINCT FROM current_user::text THEN "
-        "RAISE EXCEPTION 'wbledger: %% of a new row of %% must be the database user %%', "
-        "TG_ARGV[0], TG_TABLE_NAME, current_user USING ERRCODE = 'insufficient_privilege'; "
-        "END IF; RETURN NEW; END $$")
+    # (%% is the driver's escape for the format's %.)
+    for name, body in _PG_BODIES.items():
+        conn.exec_driver_sql(
+            f"CREATE OR REPLACE FUNCTION {name}() RETURNS trigger LANGUAGE plpgsql "
+            f"SET search_path = {_PG_PATH} AS $${body}$$".replace("%", "%%"))
     for t in tables:
         row, trunc = _pg_names(t)
         conn.exec_driver_sql(f"CREATE TRIGGER {row} BEFORE UPDATE OR DELETE ON {t} "
@@ -106,16 +112,33 @@ def drop(conn: Connection, tables=GUARDED_TABLES) -> None:
 
 
 def missing(conn: Connection) -> list[str]:
-    """The tables whose guards are missing (or, on PostgreSQL, disabled), in table order."""
+    """The tables whose guards are missing or not as installed, in table order.
+
+    SQLite: each trigger's stored SQL must be the one :func:`install` wrote. PostgreSQL: each
+    trigger must exist and fire (enabled, not only for replication), call the function it was
+    installed with, and that function's body must be the one installed.
+    """
     if conn.dialect.name == "sqlite":
-        present = {r[0] for r in conn.exec_driver_sql(
-            "SELECT name FROM sqlite_master WHERE type = 'trigger'")}
-        names = _sqlite_names
-    else:
-        present = {r[0] for r in conn.exec_driver_sql(
-            "SELECT t.tgname FROM pg_trigger t JOIN pg_class c ON c.oid = t.tgrelid "
-            "WHERE c.relnamespace = to_regnamespace(current_schema())::oid "
-            "AND NOT t.tgisinternal AND t.tgenabled <> 'D'")}
-        def names(t):
-            return (*_pg_names(t), *((f"{t}_recorded_by",) if t in RECORDED_BY else ()))
-    return [t for t in GUARDED_TABLES if not set(names(t)) <= present]
+        stored = dict(conn.exec_driver_sql(
+            "SELECT name, sql FROM sqlite_master WHERE type = 'trigger'").all())
+        return [t for t in GUARDED_TABLES
+                if any(stored.get(n) != sql for n, sql in _sqlite_sql(t).items())]
+    bodies = {name: (src, config) for name, src, config in conn.exec_driver_sql(
+        "SELECT p.proname, p.prosrc, array_to_string(p.proconfig, ';') FROM pg_proc p "
+        "WHERE p.pronamespace = to_regnamespace(current_schema())::oid AND p.proname IN "
+        f"('{_PG_FUNCTION}', '{_PG_RECORDER}')")}
+    good = {n for n, body in _PG_BODIES.items()
+            if bodies.get(n) == (body, f"search_path={_PG_PATH}")}
+    firing = {name: fn for name, fn in conn.exec_driver_sql(
+        "SELECT t.tgname, p.proname FROM pg_trigger t JOIN pg_class c ON c.oid = t.tgrelid "
+        "JOIN pg_proc p ON p.oid = t.tgfoid "
+        "WHERE c.relnamespace = to_regnamespace(current_schema())::oid "
+        "AND NOT t.tgisinternal AND t.tgenabled IN ('O', 'A')")}
+
+    def whole(t: str) -> bool:
+        want = {n: _PG_FUNCTION for n in _pg_names(t)}
+        if t in RECORDED_BY:
+            want[f"{t}_recorded_by"] = _PG_RECORDER
+        return all(firing.get(n) == fn and fn in good for n, fn in want.items())
+
+    return [t for t in GUARDED_TABLES if not whole(t)]

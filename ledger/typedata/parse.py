@@ -62,7 +62,7 @@ __all__ = ["FORMAT_VERSION", "load_type_file", "parse_type", "parse_type_text", 
 FORMAT_VERSION = 1
 """The ``format_version`` this parser reads."""
 
-_TYPE_NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,39}$")
+_TYPE_NAME_RE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,39}\Z")
 _TYPE_NAME_RULE = "expected 1-40 letters, digits, '.', '_' or '-', starting with a letter or digit"
 _NAME_MAX = 60
 

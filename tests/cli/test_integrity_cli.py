@@ -47,8 +47,10 @@ def test_a_sheet_prints_the_hashes_that_anchor_it(ready):  # noqa: F811
     shown = _ok(cli("sheet", "show", str(doc["sheet"]["id"]))).splitlines()
     assert shown[-1] == f"Sheet hash  {sheet_hash}"
     # the printed hashes are what verify knows
-    out = _ok(cli("verify", "TS-101", "--expect", head, "--expect", sheet_hash))
-    assert f"expected {head}: found" in out and f"expected {sheet_hash}: found" in out
+    out = _ok(cli("verify", "TS-101", "--expect", head, "--expect", sheet_hash,
+                  "--expect", type_hash))
+    for h in (head, sheet_hash, type_hash):  # every hash the sheet prints
+        assert f"expected {h}: found" in out
     if shutil.which("pdftotext"):
         pdf = subprocess.run(["pdftotext", d / "s.pdf", "-"], capture_output=True, text=True,
                              check=True).stdout
@@ -134,6 +136,11 @@ BAD = [
     (["verify", "--public-key", "k.pub"],
      "Error: --public-key = 'k.pub': only with --against FILE"),
     (["verify", "--exact"], "Error: --exact = 'true': only with --against FILE"),
+    (["verify", "TS-101", "--against", "{tmp}/ok.toml"],
+     "Error: REG = 'TS-101': none with --against: a checkpoint is compared with the whole "
+     "database"),
+    (["vehicle", "add", "TS-102\n", "--type", "TS-1"],
+     "Error: registration = 'TS-102\\n': 1 to 40 letters, digits or '-'"),
     (["verify", "--against", "{tmp}"], "Error: --against = '{tmp}': a regular file"),
     (["verify", "--against", "{tmp}/none.json"],
      "Error: --against = '{tmp}/none.json': an existing file"),
@@ -157,3 +164,22 @@ def test_bad_input_is_one_line_and_exit_2(ready, args, message):  # noqa: F811
     assert r.stderr.startswith(message.replace("{tmp}", str(d))), r.stderr
     assert r.stderr.count("\n") == 1
     assert not (d / "cp.json").exists()
+
+
+def test_a_checkpoint_whose_items_are_not_as_written_is_refused(ready, tmp_path):  # noqa: F811
+    from ledger.store import checkpoint
+
+    cli, _ = ready
+    _ok(cli("checkpoint", tmp_path / "cp.json"))
+    doc = json.loads((tmp_path / "cp.json").read_text())
+    for bad in ({"types": "abc"}, {"types": [1]},
+                {"vehicles": [dict(doc["vehicles"][0], entries="x")]},
+                {"vehicles": [dict(doc["vehicles"][0], entries=1e30)]}):
+        edited = {**doc, **bad}
+        edited["digest"] = checkpoint._digest(edited)  # a digest made to match
+        (tmp_path / "bad.json").write_text(json.dumps(edited))
+        r = cli("verify", "--against", tmp_path / "bad.json")
+        key = next(iter(bad))
+        assert (r.exit_code, r.stderr) == (2, f"Error: --against = '{tmp_path / 'bad.json'}': "
+                                              f"a checkpoint file (wbledger.checkpoint/1); its "
+                                              f"'{key}' are not as wbledger writes them\n")

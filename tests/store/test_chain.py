@@ -298,3 +298,11 @@ def test_assembled_canonical_text_equals_json_dumps():
     check()
     with pytest.raises(ValueError):
         chain.canonical_content({**SAMPLE, "empty_mass_kg": float("nan")}, "KV-101")
+
+
+def test_a_seq_that_is_not_a_whole_number_is_reported():
+    # int() would quietly make 2.5 into 2 (found by the review of the integrity work).
+    row = (2.5,) + (None,) * len(chain.HASHED_COLUMNS)
+    rep = chain.check_entries("KV-101", [row])
+    assert (rep.ok, rep.bad_seq, rep.problem) == (
+        False, 1, "entry 1: its seq 2.5 is not a whole number")
