@@ -310,7 +310,7 @@ def define_configuration(session: Session, name: str, *, actor: str,
                              + (", ".join(stations) or "none"))
     text = canonical_json({"items": out_items, "disables_stations": list(disables_stations)})
     owner_kind = "vehicle" if registration else "type"
-    actor = recorder(session, actor)
+    actor = recorder(session.connection(), actor)
     current = _in_force(session, owner_filter, owner_kind, owner).get(cname)
     now = dt.datetime.now(dt.timezone.utc)
     if current is not None and not replace:

@@ -640,7 +640,8 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
         if v is not None and not math.isfinite(v):
             raise InputError(name, v, "a finite number")
     day = parse_date(entry_date)
-    actor_text = recorder(session, _text(actor, "--by", required=True))
+    conn = session.connection()
+    actor_text = recorder(conn, _text(actor, "--by", required=True))
 
     vehicle = _vehicle_row if _vehicle_row is not None else _vehicle(session, registration,
                                                                       lock=True)
@@ -694,7 +695,6 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
         if values[k] is not None:
             values[k] = float(values[k]) + 0.0
     values["entry_hash"] = content_hash(values, vehicle.registration)
-    conn = session.connection()
     if conn.dialect.name == "sqlite":
         plan = sqlite_insert(conn.dialect)
         new_id = _driver(conn).execute(plan.sql, plan.row(values)).lastrowid

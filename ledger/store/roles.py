@@ -93,11 +93,11 @@ def create_roles(conn: Connection, prefix: str = "wbledger") -> dict[str, str]:
     return role_names(prefix)
 
 
-def recorder(session, name: str) -> str:
+def recorder(conn: Connection, name: str) -> str:
     """Who is recorded as writing a row: ``name`` (``--by``), except on PostgreSQL for anyone
     who does not own the ledger's tables, where it is the database user (``current_user``) —
-    the same rule the ``recorded_by`` triggers hold the database to."""
-    conn = session.connection()
+    the same rule the ``recorded_by`` triggers hold the database to. ``conn`` is the
+    connection of the session that writes (``session.connection()``)."""
     if conn.dialect.name != "postgresql":
         return name
     user, owner = conn.exec_driver_sql(

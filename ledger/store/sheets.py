@@ -154,7 +154,7 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
     """
     check_text("--by", preparer, TEXT_MAX)  # no NUL; within the column (ledger.bounds)
     created_at = created_at or dt.datetime.now(dt.timezone.utc)
-    preparer = recorder(session, preparer)
+    preparer = recorder(session.connection(), preparer)
     doc = json.loads(canonical_json(document))  # a copy; refuses NaN
     doc.setdefault("sheet", {})
     doc["sheet"] = {"id": None, "amends": None, "saved": False}
@@ -351,7 +351,7 @@ def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
     from ledger.typedata.plan import parse_plan
 
     prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
-    preparer = recorder(session, preparer)
+    preparer = recorder(session.connection(), preparer)
     vehicle, rev_id, revision, vtype, empty, cfg = _context(session, raw, source)
     plan = parse_plan(raw, vtype, source=source,
                       disabled_stations=None if cfg is None else cfg.disables_stations)
@@ -417,7 +417,7 @@ def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | No
 
     from ledger.store.evidence import sheet_problem
 
-    preparer = recorder(session, preparer)
+    preparer = recorder(session.connection(), preparer)
     original = get_sheet(session, sheet_id)
     problem = sheet_problem(session, original.id)
     if problem:
