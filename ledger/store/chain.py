@@ -48,6 +48,7 @@ __all__ = [
     "utc_text",
     "ChainReport",
     "check_entries",
+    "entries_query",
     "verify_vehicle",
     "verify_all",
 ]
@@ -323,7 +324,7 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
             return bad(f"entry {seq}: prev_hash does not match {what}")
         try:
             recorded = row[_I_RECORDED]
-            if recorded.__class__ is str:  # SQLite text, read raw by _select
+            if recorded.__class__ is str:  # SQLite text, read raw by entries_query
                 row = list(row)
                 row[_I_RECORDED] = dt.datetime.fromisoformat(recorded)
             actual = sha256(_content_of_row(row, vehicle_json).encode("utf-8")).hexdigest()
@@ -349,7 +350,9 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
     return ChainReport(registration, count, count or None, prev_hash if count else None, True)
 
 
-def _select(vehicle_ids=None):
+def entries_query(vehicle_ids=None):
+    """The query :func:`check_entries` reads: vehicle id, the hashed columns and the hash,
+    by vehicle and seq (of ``vehicle_ids`` only, if given)."""
     from sqlalchemy import select
 
     from ledger.store.models import LedgerEntryRow as E
@@ -381,7 +384,8 @@ def verify_vehicle(session, registration: str, *, expect_head: str | None = None
             raise InputError("--expect", expect_head, "a head hash: 64 hexadecimal digits "
                              "(0-9, a-f) as `wbledger verify` prints it")
     vehicle = get_vehicle(session, registration)
-    result = session.connection().execute(_select([vehicle.id]).execution_options(yield_per=5000))
+    result = session.connection().execute(
+        entries_query([vehicle.id]).execution_options(yield_per=5000))
     return check_entries(registration, (r[1:] for r in result), expect_head=expect_head)
 
 
@@ -396,7 +400,7 @@ def verify_all(session) -> list[ChainReport]:
     vehicles = session.execute(select(VehicleRow.id, VehicleRow.registration)).all()
     names = {vid: reg for vid, reg in vehicles}
     reports: dict[int, ChainReport] = {}
-    result = session.connection().execute(_select().execution_options(yield_per=5000))
+    result = session.connection().execute(entries_query().execution_options(yield_per=5000))
     for vid, rows in itertools.groupby(result, key=lambda r: r[0]):
         reports[vid] = check_entries(names[vid], (r[1:] for r in rows))
     out = [reports.get(vid) or ChainReport(reg, 0, None, None, True) for vid, reg in vehicles]

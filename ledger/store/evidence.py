@@ -34,7 +34,8 @@ from sqlalchemy.orm import Session, aliased
 
 from ledger.errors import ChainError, InputError
 from ledger.store import guards
-from ledger.store.chain import GENESIS_HASH, ChainReport, check_entries, verify_vehicle
+from ledger.store.chain import (GENESIS_HASH, ChainReport, check_entries, entries_query,
+                                verify_vehicle)
 from ledger.store.models import (
     ConfigurationRow,
     LedgerEntryRow,
@@ -479,7 +480,6 @@ def verify_fleet(session: Session, registration: str | None = None, *,
     on a sheet, or a head from ``verify`` — each of which must still be in a chain.
     """
     from ledger.store.catalog import get_vehicle
-    from ledger.store.chain import _select
 
     wanted = [parse_hash(h) for h in expect]
     type_names = dict(session.execute(select(VehicleTypeRow.id, VehicleTypeRow.name)).all())
@@ -549,11 +549,9 @@ PARALLEL_FROM = 50_000
 def _chains(session: Session, ids, registrations: dict[int, str], type_names: dict[int, str],
             remember: bool):
     """(ledger reports, sheet chains, hashes seen) of the vehicles ``ids`` (None: every row)."""
-    from ledger.store.chain import _select
-
     seen: set[str] | None = set() if remember else None
     ledgers: dict[int, ChainReport] = {}
-    result = session.connection().execute(_select(ids).execution_options(yield_per=5000))
+    result = session.connection().execute(entries_query(ids).execution_options(yield_per=5000))
     for vid, rows in itertools.groupby(result, key=lambda r: r[0]):
         rows = (r[1:] for r in rows)
         if seen is not None:
