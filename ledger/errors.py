@@ -89,7 +89,7 @@ class InputError(ValueError, LedgerError):
             text += f". {self.hint}"
         return text
 
-    def with_source(self, source: str) -> "InputError":
+    def with_source(self, source: str) -> InputError:
         """Return the same error, located in ``source`` (a file name, or ``file:line``)."""
         self.source = source
         self.args = (self._build(),)

@@ -146,7 +146,7 @@ EXAMPLES: dict[str, str] = {
 
 
 def _build_table() -> dict[str, tuple[str, float, float]]:
-    """unit -> (dimension, factor, offset); value_si = (value + offset) * factor."""
+    """Unit -> (dimension, factor, offset); value_si = (value + offset) * factor."""
     table: dict[str, tuple[str, float, float]] = {}
 
     def put(unit: str, dim: str, factor: float, offset: float = 0.0) -> None:
@@ -829,6 +829,6 @@ class DisplayUnits:
                 "moment_divisor": self.moment_divisor}
 
     @classmethod
-    def from_dict(cls, d: dict) -> "DisplayUnits":
+    def from_dict(cls, d: dict) -> DisplayUnits:
         """Inverse of :meth:`to_dict`."""
         return cls(d["mass"], d["length"], d["volume"], d["moment_divisor"])

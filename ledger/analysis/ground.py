@@ -23,11 +23,11 @@ rear % = (LR + RR)/T, diagonals named; common practice); ISO 10392 for the axle-
 from __future__ import annotations
 
 import math
-from typing import Sequence
+from collections.abc import Sequence
 
 from ledger.analysis import MISSING
+from ledger.caution import CAUTION_SHORT
 from ledger.errors import InputError
-from ledger.report.caution import CAUTION_SHORT
 
 __all__ = [
     "CORNERS_SCHEMA",
@@ -364,7 +364,7 @@ def rule_set_document(rules, *, lengths_ft: Sequence[float] | None = None,
     >>> d["bridge_table"]["rows"][0]["max_lb"][:2], d["caution"][:25]
     ([40000.0, 43500.0], 'Axle-group rules are show')
     """
-    from ledger.report.caution import GROUND_CAUTION
+    from ledger.caution import GROUND_CAUTION
     from ledger.rules import bridge_table
 
     doc = {"schema": "wbledger.axle-rules/1", "caution": GROUND_CAUTION, **rules.to_dict(),

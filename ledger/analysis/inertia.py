@@ -33,14 +33,15 @@ positive-product convention ``Ixy = Σ m·x·y``; the tensor's off-diagonal term
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field, replace
-from typing import Any, Iterable, Mapping, Sequence
+from typing import Any
 
 import numpy as np
 
 from ledger.analysis import MISSING
+from ledger.caution import CAUTION
 from ledger.errors import InputError, MassPropertiesError
-from ledger.report.caution import CAUTION
 
 __all__ = [
     "SCHEMA",
@@ -532,8 +533,13 @@ def inertia_document(vtype, empty_mass_kg: float, empty_cg_m: Sequence[float | N
     >>> round(d["moments_kgm2"]["Ixx"], 9)   # 0.02 + 0.3·(0.05²+0.04²)/12 + 1.2·0.3/1.5·0.05²
     0.0207025
     """
-    from ledger.core.inertia import (BODY_AXES, CONTRIBUTION_COLUMNS, PRODUCT_CONVENTION,
-                                     combined_inertia, x_axis_inclination)
+    from ledger.core.inertia import (
+        BODY_AXES,
+        CONTRIBUTION_COLUMNS,
+        PRODUCT_CONVENTION,
+        combined_inertia,
+        x_axis_inclination,
+    )
 
     warnings: list[str] = []
     inst_all = installed_mass_items(installed)

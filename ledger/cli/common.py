@@ -3,9 +3,9 @@
 from __future__ import annotations
 
 import json
-import sys
+from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any, Callable, NoReturn
+from typing import Any, NoReturn
 
 import typer
 
@@ -25,14 +25,12 @@ class State:
 
     def engine(self, *, check: bool = True):
         """The engine for this invocation; refuses an uninitialised or outdated schema."""
+        from ledger.services.database import check_database, open_database
+
         if self._engine is None:
-            from ledger.store.db import make_engine
-
-            self._engine = make_engine(self.db_url)
+            self._engine = open_database(self.db_url, check=False)
         if check:
-            from ledger.store.db import check_schema
-
-            check_schema(self._engine)
+            check_database(self._engine)
         return self._engine
 
 

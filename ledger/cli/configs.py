@@ -36,8 +36,7 @@ def define(ctx: typer.Context,
            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Define a configuration of a type (--type) or of one vehicle (--vehicle)."""
     from ledger.report.ledger import render_configuration
-    from ledger.store.configs import (configuration_document, define_configuration,
-                                      parse_item_spec)
+    from ledger.store.configs import configuration_document, define_configuration, parse_item_spec
     from ledger.store.db import session_scope
 
     items = ([{"action": "install", **parse_item_spec(t, field="--install")}
@@ -74,8 +73,7 @@ def show(ctx: typer.Context,
          as_json: bool = common.JSON_OPTION) -> None:
     """Show one configuration; for a vehicle, with removed items resolved from its ledger."""
     from ledger.report.ledger import render_configuration
-    from ledger.store.configs import (configuration_document, configuration_items,
-                                      get_configuration)
+    from ledger.store.configs import configuration_document, configuration_items, get_configuration
     from ledger.store.db import session_scope
 
     with session_scope(common.state(ctx).engine()) as session:

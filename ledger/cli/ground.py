@@ -168,8 +168,8 @@ def cg_height(
     as_json: bool = common.JSON_OPTION,
 ) -> None:
     """CG height from an axle-lift weighing (ISO 10392 method), stored with the vehicle."""
-    from ledger.analysis.ground import angles_from_lift, cg_height_document
     from ledger.analysis import MISSING
+    from ledger.analysis.ground import angles_from_lift, cg_height_document
     from ledger.errors import InputError
     from ledger.report.ground import render_cg_height
     from ledger.store.db import session_scope

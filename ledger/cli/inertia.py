@@ -15,7 +15,6 @@ import typer
 from ledger.cli import common
 from ledger.files import INPUT_LIMIT
 
-
 HELP = (
     "Loaded inertia about the loaded CG in body axes (x forward, y right, z down).\n\n"
     "Mass, CG, Ixx, Iyy, Izz, the products of inertia (positive-product convention, "
@@ -55,8 +54,12 @@ def inertia(
     as_json: bool = common.JSON_OPTION,
 ) -> None:
     """Loaded inertia about the loaded CG in body axes (x forward, y right, z down)."""
-    from ledger.analysis.inertia import (default_phase, inertia_document, phase_tank_masses,
-                                         plan_mass_items)
+    from ledger.analysis.inertia import (
+        default_phase,
+        inertia_document,
+        phase_tank_masses,
+        plan_mass_items,
+    )
     from ledger.errors import InputError
     from ledger.report.inertia import CSV_LAYOUTS, render_inertia, write_inertia_csv
     from ledger.store.catalog import get_vehicle, vehicle_type

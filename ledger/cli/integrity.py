@@ -121,7 +121,6 @@ def checkpoint_key(keyfile: Path = typer.Argument(..., metavar="KEYFILE",
     """Make a new Ed25519 key pair for signing checkpoints (the private key is created 0600
     and never overwrites a file)."""
     from ledger.errors import InputError
-
     from ledger.files import check_output_path, write_new
     from ledger.store.checkpoint import new_key_pair
 

@@ -23,8 +23,8 @@ def import_(ctx: typer.Context,
             max_size: str = common.max_size_option(INPUT_LIMIT),
             as_json: bool = common.JSON_OPTION) -> None:
     """Import type files; a changed file becomes a new revision of its type."""
-    from ledger.store.db import session_scope
     from ledger.store.catalog import import_type
+    from ledger.store.db import session_scope
     from ledger.typedata import read_type_file
 
     limit = common.size_limit(max_size)

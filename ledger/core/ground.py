@@ -23,8 +23,8 @@ regulations, permits and the manufacturer's ratings govern.
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Mapping, Sequence
 
 import numpy as np
 
@@ -767,7 +767,7 @@ class RuleSet:
     source: str = ""
 
     @classmethod
-    def from_dict(cls, data: Mapping[str, object]) -> "RuleSet":
+    def from_dict(cls, data: Mapping[str, object]) -> RuleSet:
         """Build a rule set from a mapping (the rule-set files of :mod:`ledger.rules` give one).
 
         Keys: ``name``; ``single_axle``, ``tandem``, ``gross`` each with a unit suffix ``_kg`` or

@@ -16,8 +16,8 @@ Sources
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
@@ -94,13 +94,13 @@ class Correction:
 
     @classmethod
     def add(cls, label: str, mass: float, x: float, y: float | None = None,
-            z: float | None = None) -> "Correction":
+            z: float | None = None) -> Correction:
         """An item to add to the as-weighed condition (e.g. oil drained for weighing)."""
         return cls(label, mass, x, y, z, +1)
 
     @classmethod
     def remove(cls, label: str, mass: float, x: float, y: float | None = None,
-               z: float | None = None) -> "Correction":
+               z: float | None = None) -> Correction:
         """An item to remove from the as-weighed condition (e.g. usable fuel on board)."""
         return cls(label, mass, x, y, z, -1)
 

@@ -5,7 +5,7 @@ two supports; an axle group shares its support's load in the type's load-sharing
 rating check from :func:`ledger.core.ground.check_axle_ratings`, the advisory rules from
 :func:`ledger.core.ground.check_axle_groups` with a rule set named by the plan (for example
 ``"us-interstate"``, 23 CFR 658.17). Rule findings are advisory: they never change the verdict,
-and the sheet carries :data:`ledger.report.caution.GROUND_CAUTION` with them.
+and the sheet carries :data:`ledger.caution.GROUND_CAUTION` with them.
 """
 
 from __future__ import annotations
@@ -14,9 +14,9 @@ import math
 
 import numpy as np
 
+from ledger.caution import GROUND_CAUTION
 from ledger.errors import InputError, PlanError, TypeDataError
 from ledger.loadsheet.text import excess_text, mass_text, phase_title
-from ledger.report.caution import GROUND_CAUTION
 
 __all__ = ["supports", "axle_checks"]
 

@@ -34,15 +34,15 @@ from __future__ import annotations
 
 import datetime as dt
 import math
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
-from typing import Any, Iterable, Mapping
+from typing import Any
 
 import numpy as np
 
+from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.errors import PlanError
-from ledger.loadsheet.text import (excess_text, length_text, mass_text, phase_title,
-                                   volume_text)
-from ledger.report.caution import CAUTION, GROUND_CAUTION
+from ledger.loadsheet.text import excess_text, length_text, mass_text, phase_title, volume_text
 
 __all__ = [
     "SCHEMA",
@@ -126,7 +126,7 @@ class _State:
     my: float
     mz: float | None
 
-    def plus(self, m: float, x: float, y: float | None, z: float | None) -> "_State":
+    def plus(self, m: float, x: float, y: float | None, z: float | None) -> _State:
         y = y or 0.0
         mz = None if (self.mz is None or z is None) else self.mz + m * z
         return _State(self.mass + m, self.mx + m * x, self.my + m * y, mz)

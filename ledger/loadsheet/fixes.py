@@ -24,8 +24,8 @@ was checked.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Callable
 
 import numpy as np
 
@@ -245,7 +245,6 @@ class _Finder:
 
     def axle_offload_need(self, doc, station: str) -> float | None:
         from ledger.core.ground import axle_loads
-
         from ledger.loadsheet.axles import supports
 
         axles, groups, shares = supports(self.t)
@@ -268,7 +267,6 @@ class _Finder:
     def move_need(self, doc, station: str) -> float | None:
         """Signed distance (m, + aft) to move the load in a load area to clear the axles."""
         from ledger.core.ground import axle_overload_fix
-
         from ledger.loadsheet.axles import supports
 
         if _needs_other(doc, {"axle"}):

@@ -2,7 +2,7 @@
 
 Renders the documents of :mod:`ledger.analysis.ground`: corner weights (``wbledger.corners/1``),
 CG height by axle lift (``wbledger.cg-height/1``) and axle-group rule sets
-(``wbledger.axle-rules/1``, with :data:`ledger.report.caution.GROUND_CAUTION`). Masses and
+(``wbledger.axle-rules/1``, with :data:`ledger.caution.GROUND_CAUTION`). Masses and
 lengths are shown in the document's display units (the vehicle type's, or the units the user
 typed), percentages to two decimals. At ``width=80`` no line is wider than 80 columns.
 """
@@ -187,7 +187,7 @@ def render_rule_list(rows: list[dict], console=None, width: int = 80) -> None:
     console.print(simple_table(["name", "title", "where"],
                          [[r["name"], r["title"], "built in" if r["builtin"] else r["path"]]
                           for r in rows]), width=w)
-    from ledger.report.caution import GROUND_CAUTION
+    from ledger.caution import GROUND_CAUTION
 
     console.print(Text(GROUND_CAUTION, style="italic"), width=w, overflow="fold")
 

@@ -9,7 +9,7 @@ tolerance ``!``.
 
 from __future__ import annotations
 
-from ledger.report.caution import CAUTION_SHORT
+from ledger.caution import CAUTION_SHORT
 from ledger.units import display_decimals, to_unit
 
 __all__ = [

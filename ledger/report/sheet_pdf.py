@@ -21,8 +21,8 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import BinaryIO
 
+from ledger.caution import CAUTION_SHORT
 from ledger.files import replacing
-from ledger.report.caution import CAUTION_SHORT
 from ledger.report.sheet_text import DASH, ChartData, SheetView, TableData
 
 __all__ = ["PAPER_SIZES", "write_pdf", "write_svg"]
@@ -450,10 +450,9 @@ def _render(doc: dict, path, fmt: str, paper: str) -> Path:
     return path
 
 
-def _write(doc: dict, view: "SheetView", out: BinaryIO, fmt: str, page_w: float,
+def _write(doc: dict, view: SheetView, out: BinaryIO, fmt: str, page_w: float,
            page_h: float, rc: dict) -> None:
     import matplotlib
-
     from matplotlib.backends.backend_pdf import PdfPages
     from matplotlib.figure import Figure
 

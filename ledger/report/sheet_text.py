@@ -36,7 +36,7 @@ from rich.rule import Rule
 from rich.table import Table
 from rich.text import Text
 
-from ledger.report.caution import CAUTION, GROUND_CAUTION
+from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.report.textchart import PATH, envelope_chart
 from ledger.units import DisplayUnits, display_decimals, nonzero_excess, to_unit
 
@@ -129,7 +129,7 @@ class SheetView:
         self._md = display_decimals(self.mass_unit, empty)
         self._ld = display_decimals(self.length_unit)
         self._vd = _VOLUME_DECIMALS.get(self.volume_unit, 1)
-        biggest = max([abs(_num((p.get("moment_index"))) or 0.0)
+        biggest = max([abs(_num(p.get("moment_index")) or 0.0)
                        for p in doc.get("phases") or []] + [0.0])
         self._id = 2 if biggest < 1000 else 1 if biggest < 100000 else 0
         vehicle = doc.get("vehicle") or {}

@@ -37,7 +37,7 @@ REGISTRATION_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9-]{0,39}\Z")
 
 
 def _now() -> dt.datetime:
-    return dt.datetime.now(dt.timezone.utc)
+    return dt.datetime.now(dt.UTC)
 
 
 @dataclass(frozen=True)

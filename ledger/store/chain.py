@@ -118,7 +118,7 @@ def utc_text(value: dt.datetime) -> str:
         return _UTC_LAST[1]
     v = value
     if v.tzinfo is not None:
-        v = v.astimezone(dt.timezone.utc).replace(tzinfo=None)
+        v = v.astimezone(dt.UTC).replace(tzinfo=None)
     text = v.isoformat(timespec="microseconds") + "Z"
     _UTC_LAST[0], _UTC_LAST[1] = value, text
     return text
@@ -353,11 +353,9 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
 def entries_query(vehicle_ids=None):
     """The query :func:`check_entries` reads: vehicle id, the hashed columns and the hash,
     by vehicle and seq (of ``vehicle_ids`` only, if given)."""
-    from sqlalchemy import select
+    from sqlalchemy import String, select, type_coerce
 
     from ledger.store.models import LedgerEntryRow as E
-
-    from sqlalchemy import String, type_coerce
 
     # Dates are read as the stored text where the driver gives text (SQLite), so that a value
     # changed by hand into something that is not a date is reported by check_entries instead

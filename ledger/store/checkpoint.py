@@ -102,7 +102,7 @@ def take(session: Session, *, database: str, now: dt.datetime | None = None) -> 
     configs.sort(key=lambda c: (c["owner_kind"], c["owner"], c["name"]))
     doc = {
         "format": FORMAT,
-        "created_at": utc_text(now or dt.datetime.now(dt.timezone.utc)),
+        "created_at": utc_text(now or dt.datetime.now(dt.UTC)),
         "database": database,
         "types": [{"type": t.name, "revisions": t.revisions, "head_hash": t.head_hash}
                   for t in report.types],

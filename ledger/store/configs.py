@@ -125,8 +125,8 @@ class ConfigurationView:
 
 def _iso(value: dt.datetime) -> str:
     if value.tzinfo is None:
-        value = value.replace(tzinfo=dt.timezone.utc)
-    return value.astimezone(dt.timezone.utc).isoformat()
+        value = value.replace(tzinfo=dt.UTC)
+    return value.astimezone(dt.UTC).isoformat()
 
 
 _SPEC = re.compile(r"^\s*(?P<name>[^=@]+?)\s*(?:=\s*(?P<mass>[^@]+?)\s*@\s*(?P<arms>.+?))?\s*$")
@@ -312,7 +312,7 @@ def define_configuration(session: Session, name: str, *, actor: str,
     owner_kind = "vehicle" if registration else "type"
     actor = recorder(session.connection(), actor)
     current = _in_force(session, owner_filter, owner_kind, owner).get(cname)
-    now = dt.datetime.now(dt.timezone.utc)
+    now = dt.datetime.now(dt.UTC)
     if current is not None and not replace:
         raise ConflictError(f"configuration {cname!r} of {owner} exists already; give "
                             "--replace to redefine it")

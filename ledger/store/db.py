@@ -203,7 +203,7 @@ def make_engine(url: str | None = None, *, echo: bool = False,
     return engine
 
 
-_FACTORIES: "weakref.WeakKeyDictionary[Engine, sessionmaker]" = weakref.WeakKeyDictionary()
+_FACTORIES: weakref.WeakKeyDictionary[Engine, sessionmaker] = weakref.WeakKeyDictionary()
 
 
 @contextlib.contextmanager
@@ -326,7 +326,7 @@ def _backup_sqlite(engine: Engine) -> Path | None:
     path = Path(database).expanduser()
     if not path.exists() or path.stat().st_size == 0:
         return None
-    stamp = dt.datetime.now(dt.timezone.utc).strftime("%Y%m%dT%H%M%SZ")
+    stamp = dt.datetime.now(dt.UTC).strftime("%Y%m%dT%H%M%SZ")
     backup = path.with_name(f"{path.name}.{stamp}.bak")
     # The SQLite online-backup API copies a consistent image even with a WAL file beside it.
     import sqlite3

@@ -47,16 +47,15 @@ from sqlalchemy.orm import Session
 
 from ledger.bounds import TEXT_MAX, check_text
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
-from ledger.store.roles import recorder
 from ledger.store.chain import ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash
-from ledger.typedata.model import SHAPE_DIMENSIONS
 from ledger.store.models import (
     ENTRY_KINDS,
     LedgerEntryRow,
-    TypeRevisionRow,
     VehicleRow,
     VehicleTypeRow,
 )
+from ledger.store.roles import recorder
+from ledger.typedata.model import SHAPE_DIMENSIONS
 
 __all__ = [
     "Entry",
@@ -167,7 +166,7 @@ class Entry:
     def cg_z_m(self) -> float | None:
         return self.empty_mz_kgm / self.empty_mass_kg if self.z_known else None
 
-    def state(self) -> "EmptyState":
+    def state(self) -> EmptyState:
         """The running empty state after this entry."""
         return EmptyState(self.registration, self.id, self.seq, self.entry_date,
                           self.empty_mass_kg, self.empty_mx_kgm, self.empty_my_kgm,
@@ -261,12 +260,12 @@ class TypeInfo:
 
 def _utc(value: dt.datetime) -> dt.datetime:
     if value.tzinfo is None:  # SQLite gives back naive datetimes; they were stored as UTC
-        return value.replace(tzinfo=dt.timezone.utc)
-    return value.astimezone(dt.timezone.utc)
+        return value.replace(tzinfo=dt.UTC)
+    return value.astimezone(dt.UTC)
 
 
 def _now() -> dt.datetime:
-    return dt.datetime.now(dt.timezone.utc)
+    return dt.datetime.now(dt.UTC)
 
 
 def parse_date(value: dt.date | str | None, *, field: str = "--date",

@@ -34,8 +34,13 @@ from sqlalchemy.orm import Session, aliased
 
 from ledger.errors import ChainError, InputError
 from ledger.store import guards
-from ledger.store.chain import (GENESIS_HASH, ChainReport, check_entries, entries_query,
-                                verify_vehicle)
+from ledger.store.chain import (
+    GENESIS_HASH,
+    ChainReport,
+    check_entries,
+    entries_query,
+    verify_vehicle,
+)
 from ledger.store.models import (
     ConfigurationRow,
     LedgerEntryRow,

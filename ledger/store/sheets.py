@@ -63,8 +63,8 @@ def canonical_json(data: Any) -> str:
 
 def _iso(value: dt.datetime) -> str:
     if value.tzinfo is None:  # SQLite gives back naive datetimes; they were stored as UTC
-        value = value.replace(tzinfo=dt.timezone.utc)
-    return value.astimezone(dt.timezone.utc).isoformat()
+        value = value.replace(tzinfo=dt.UTC)
+    return value.astimezone(dt.UTC).isoformat()
 
 
 def sheet_content_hash(*, vehicle_id: int, type_revision_id: int, entry_id: int,
@@ -153,7 +153,7 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
         The saved sheet this one amends.
     """
     check_text("--by", preparer, TEXT_MAX)  # no NUL; within the column (ledger.bounds)
-    created_at = created_at or dt.datetime.now(dt.timezone.utc)
+    created_at = created_at or dt.datetime.now(dt.UTC)
     preparer = recorder(session.connection(), preparer)
     doc = json.loads(canonical_json(document))  # a copy; refuses NaN
     doc.setdefault("sheet", {})
@@ -350,7 +350,7 @@ def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
     from ledger.loadsheet import build_sheet
     from ledger.typedata.plan import parse_plan
 
-    prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
+    prepared_at = prepared_at or dt.datetime.now(dt.UTC)
     preparer = recorder(session.connection(), preparer)
     vehicle, rev_id, revision, vtype, empty, cfg = _context(session, raw, source)
     plan = parse_plan(raw, vtype, source=source,
@@ -413,9 +413,8 @@ def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | No
     """
     from ledger.loadsheet import build_sheet
     from ledger.loadsheet.amend import compare_plans
-    from ledger.typedata.plan import Plan, merge_options, parse_plan
-
     from ledger.store.evidence import sheet_problem
+    from ledger.typedata.plan import Plan, merge_options, parse_plan
 
     preparer = recorder(session.connection(), preparer)
     original = get_sheet(session, sheet_id)
@@ -468,7 +467,7 @@ def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | No
             f"the change to sheet {root.id} is beyond the last-minute tolerance of type "
             f"{vtype.name} ({_tolerance_text(check, du)}): {why}; prepare a new sheet with "
             f"`wbledger sheet PLAN --save`")
-    prepared_at = prepared_at or dt.datetime.now(dt.timezone.utc)
+    prepared_at = prepared_at or dt.datetime.now(dt.UTC)
     doc = build_sheet(vtype, empty, plan,
                       configuration_items=None if cfg is None else cfg.items,
                       prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,

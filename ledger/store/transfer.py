@@ -376,8 +376,8 @@ def _parse_recorded(row: _Row, now: dt.datetime) -> dt.datetime:
         raise row.err("recorded_at", v, "a UTC timestamp such as "
                       "2026-03-01T10:00:00.000000Z") from None
     if t.tzinfo is None:
-        t = t.replace(tzinfo=dt.timezone.utc)
-    return t.astimezone(dt.timezone.utc)
+        t = t.replace(tzinfo=dt.UTC)
+    return t.astimezone(dt.UTC)
 
 
 def import_entries(session: Session, registration: str, records: Iterable[tuple[int, Mapping]],
@@ -426,7 +426,7 @@ def import_entries(session: Session, registration: str, records: Iterable[tuple[
             if rev is not None:
                 reversed_.add(rev)
     today = dt.date.today()
-    now = dt.datetime.now(dt.timezone.utc)
+    now = dt.datetime.now(dt.UTC)
     vtype = None  # read for the first weighing, whose empty mass must be plausible for it
     dates: dict[str, dt.date] = {}
     out: list[dict] = []

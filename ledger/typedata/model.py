@@ -599,7 +599,7 @@ class VehicleType:
         return {"canonical_version": CANONICAL_VERSION, **d}
 
     @classmethod
-    def from_dict(cls, data: dict) -> "VehicleType":
+    def from_dict(cls, data: dict) -> VehicleType:
         """Rebuild a type from :meth:`to_dict` output (e.g. the JSON a store saved)."""
         if not isinstance(data, dict):
             raise TypeDataError("stored type", type(data).__name__, "expected a dict")

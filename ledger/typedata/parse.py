@@ -23,7 +23,6 @@ from ledger.bounds import SOURCE_NAME_MAX, load_toml, shown
 from ledger.errors import InputError, TypeDataError
 from ledger.files import INPUT_LIMIT, read_input_text
 from ledger.typedata.model import (
-    SHAPE_DIMENSIONS,
     AIRCRAFT_KINDS,
     CONFIGURATION_ACTIONS,
     ENVELOPE_AXES,
@@ -33,6 +32,7 @@ from ledger.typedata.model import (
     OCCUPANT_CLASSES,
     SEAT_KINDS,
     SHAPE_AXES,
+    SHAPE_DIMENSIONS,
     SHAPE_KINDS,
     STANDARD_MASS_SETS,
     STATION_KINDS,
@@ -183,7 +183,7 @@ class _Table:
         return self.data[key]
 
     def sub(self, key: str, allowed: tuple[str, ...], *, required: bool = False,
-            what: str | None = None) -> "_Table | None":
+            what: str | None = None) -> _Table | None:
         if key not in self.data:
             if required:
                 raise TypeDataError(self.field(key), _MISSING,

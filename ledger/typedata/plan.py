@@ -31,9 +31,10 @@ from __future__ import annotations
 
 import math
 import tomllib
+from collections.abc import Mapping, Sequence
 from dataclasses import asdict, dataclass, replace
 from pathlib import Path
-from typing import Any, Mapping, Sequence
+from typing import Any
 
 from ledger import units as U
 from ledger.bounds import TEXT_MAX, load_toml, shown
@@ -173,7 +174,7 @@ class Plan:
 
     # --- changes (used to try fixes) -------------------------------------------------------
     def with_cargo(self, station: str, delta_kg: float, what: str = "",
-                   x_m: float | None = None) -> "Plan":
+                   x_m: float | None = None) -> Plan:
         """A copy with ``delta_kg`` more (or, negative, less) cargo at ``station``.
 
         Removal takes from the last entries at that station first; it cannot remove more than
@@ -195,7 +196,7 @@ class Plan:
             raise ValueError(f"cannot remove {-delta_kg} kg from {station!r}")
         return replace(self, cargo=tuple(reversed(kept)))
 
-    def with_cargo_moved(self, station: str, distance_m: float, default_x_m: float) -> "Plan":
+    def with_cargo_moved(self, station: str, distance_m: float, default_x_m: float) -> Plan:
         """A copy with every load at ``station`` moved ``distance_m`` aft (negative: forward)
         within the station; a load without its own arm starts from ``default_x_m``."""
         out = []
@@ -205,7 +206,7 @@ class Plan:
             out.append(c)
         return replace(self, cargo=tuple(out))
 
-    def with_tank_mass(self, tank: str, mass_kg: float) -> "Plan":
+    def with_tank_mass(self, tank: str, mass_kg: float) -> Plan:
         """A copy with ``mass_kg`` of usable fuel in ``tank`` (same density)."""
         out = []
         for t in self.tanks:
@@ -220,7 +221,7 @@ class Plan:
         return asdict(self)
 
     @classmethod
-    def from_dict(cls, data: Mapping[str, Any]) -> "Plan":
+    def from_dict(cls, data: Mapping[str, Any]) -> Plan:
         d = dict(data)
         d["persons"] = tuple(Person(**p) for p in d.get("persons", ()))
         d["cargo"] = tuple(CargoLoad(**c) for c in d.get("cargo", ()))
@@ -526,7 +527,7 @@ class _Checker:
         return kg
 
     # --- sections --------------------------------------------------------------------------
-    def parse(self) -> "Plan":
+    def parse(self) -> Plan:
         self.keys(self.raw, "", _TOP_KEYS)
         vehicle = plan_vehicle(self.raw, self.source)
         configuration = self.configuration()

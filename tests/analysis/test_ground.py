@@ -24,8 +24,13 @@ import math
 import numpy as np
 import pytest
 
-from ledger.analysis.ground import (angles_from_lift, cg_height_document,
-                                    corner_weights_document, rule_set_document, type_geometry)
+from ledger.analysis.ground import (
+    angles_from_lift,
+    cg_height_document,
+    corner_weights_document,
+    rule_set_document,
+    type_geometry,
+)
 from ledger.errors import ConflictError, InputError, NotFoundError
 from ledger.testing import assert_close
 
@@ -304,7 +309,7 @@ def test_two_consecutive_tandems_36_ft_apart_carry_34000_lb_each(rules):
 
 
 def test_rule_set_document_carries_the_ground_caution(rules):
-    from ledger.report.caution import GROUND_CAUTION
+    from ledger.caution import GROUND_CAUTION
     from ledger.report.ground import as_text, render_rule_set
 
     doc = rule_set_document(rules.load_rule_set("us-federal-interstate"),

@@ -26,14 +26,20 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ledger.analysis.inertia import (MassItem, inertia_document, phase_tank_masses,
-                                     plan_mass_items)
+from ledger.analysis.inertia import MassItem, inertia_document, phase_tank_masses, plan_mass_items
+from ledger.caution import CAUTION
 from ledger.errors import InputError, MassPropertiesError
-from ledger.report.caution import CAUTION
 from ledger.report.inertia import CSV_LAYOUTS, csv_quantities, inertia_csv, inertia_text
 from ledger.testing import assert_close
-from ledger.typedata import (ConfigItem, Configuration, GyrationInertia, MeasuredInertia,
-                             Shape, VehicleType, WeightLimits)
+from ledger.typedata import (
+    ConfigItem,
+    Configuration,
+    GyrationInertia,
+    MeasuredInertia,
+    Shape,
+    VehicleType,
+    WeightLimits,
+)
 from ledger.units import DisplayUnits
 
 # Datum axes (x aft, y right, z up) -> body axes (x forward, y right, z down): diag(-1, 1, -1)

@@ -51,7 +51,7 @@ def test_check_exit_codes(ready):
     lines = r.stdout.splitlines()
     assert lines[0] == "TS-101: IN LIMITS"
     # The caution closes the output, wrapped to 80 columns like every line.
-    from ledger.report.caution import CAUTION
+    from ledger.caution import CAUTION
 
     assert " ".join(lines[-4:]).endswith(CAUTION) or " ".join(lines).endswith(CAUTION)
     assert all(len(line) <= 80 for line in lines)

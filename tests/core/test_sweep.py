@@ -14,8 +14,8 @@ import shapely
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ledger.core._jit import kernels
 from ledger.core import envelope
+from ledger.core._jit import kernels
 from ledger.core.envelope import assess, covers, prepare_sweep
 from ledger.core.massprops import mass_properties
 from ledger.core.sweep import sweep_cases

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import copy
 
-from ledger.report.caution import CAUTION, GROUND_CAUTION
+from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.units import from_unit, to_unit
 
 __all__ = ["airplane_in_limits", "airplane_moment_envelope", "airplane_out_of_limits",

@@ -13,8 +13,8 @@ import xml.etree.ElementTree as ET
 
 import pytest
 
+from ledger.caution import CAUTION, CAUTION_SHORT, GROUND_CAUTION
 from ledger.errors import InputError
-from ledger.report.caution import CAUTION, CAUTION_SHORT, GROUND_CAUTION
 from ledger.report.sheet_pdf import write_pdf, write_svg
 from tests.report import samples
 

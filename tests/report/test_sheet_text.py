@@ -11,7 +11,7 @@ import pytest
 from rich.cells import cell_len
 from rich.console import Console
 
-from ledger.report.caution import CAUTION, GROUND_CAUTION
+from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.report.sheet_text import SheetView, render_sheet, sheet_text
 from tests.report import samples
 

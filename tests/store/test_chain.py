@@ -13,15 +13,14 @@ import hashlib
 import pytest
 from sqlalchemy import text
 
-from ledger.store import chain, entries
+from ledger.store import chain, entries, guards
 from ledger.store.db import session_scope
-from ledger.store import guards
 from tests.store.ledger_support import DAY0, setup_fleet, weigh_a
 
 D1 = DAY0 + dt.timedelta(days=1)
 
 SAMPLE = dict(seq=1, kind="weighing", entry_date=dt.date(2026, 1, 5),
-              recorded_at=dt.datetime(2026, 1, 5, 9, 30, 0, 250000, tzinfo=dt.timezone.utc),
+              recorded_at=dt.datetime(2026, 1, 5, 9, 30, 0, 250000, tzinfo=dt.UTC),
               actor="A. Weigher", reason=None, reference="WO-1", item=None,
               item_mass_kg=None, item_x_m=None, item_y_m=None, item_z_m=None,
               delta_mass_kg=700.1, delta_mx_kgm=1400.0, delta_my_kgm=-0.0, delta_mz_kgm=0,
@@ -281,7 +280,7 @@ def test_assembled_canonical_text_equals_json_dumps():
         "seq": st.integers(1, 10**9), "kind": st.sampled_from(
             ["weighing", "install", "remove", "correction", "cg_height"]),
         "entry_date": st.dates(), "recorded_at": st.datetimes(timezones=st.just(
-            dt.timezone.utc)),
+            dt.UTC)),
         "actor": texts, "reason": opt_texts, "reference": opt_texts, "item": opt_texts,
         "item_mass_kg": opt_floats, "item_x_m": opt_floats, "item_y_m": opt_floats,
         "item_z_m": opt_floats, "delta_mass_kg": floats, "delta_mx_kgm": floats,

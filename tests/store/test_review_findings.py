@@ -72,7 +72,7 @@ def test_a_vehicle_relinked_to_a_second_type_of_the_same_name(fleet):  # noqa: F
     try:
         guards.drop(conn, ["vehicle_types", "vehicles"])
         _drop_unique(conn, "vehicle_types", "uq_vehicle_types_name")
-        created = dt.datetime(2026, 12, 1, tzinfo=dt.timezone.utc)
+        created = dt.datetime(2026, 12, 1, tzinfo=dt.UTC)
         conn.execute(text("INSERT INTO vehicle_types (id, name, created_at) "
                           "VALUES (900, 'TS-1', :c)"), {"c": created})
         body = TYPE.format(name="TS-1", mtow=3000)
@@ -199,7 +199,7 @@ def test_an_orphaned_configuration_is_reported(fleet):  # noqa: F811
         conn.execute(text("INSERT INTO configurations (type_id, vehicle_id, name, description, "
                           "items_json, created_at, created_by, version, prev_hash, row_hash) "
                           "VALUES (NULL, 9999, 'x', NULL, '{}', :c, 'm', 1, :z, :z)"),
-                     {"c": dt.datetime(2026, 12, 1, tzinfo=dt.timezone.utc), "z": "0" * 64})
+                     {"c": dt.datetime(2026, 12, 1, tzinfo=dt.UTC), "z": "0" * 64})
         with Session(bind=conn) as s:
             report = verify_fleet(s)
             if report.ok:

@@ -12,6 +12,7 @@ import pytest
 from sqlalchemy import func, select, text
 
 from ledger.errors import ConflictError, PlanError
+from ledger.store import guards
 from ledger.store.catalog import add_vehicle, import_type
 from ledger.store.db import session_scope
 from ledger.store.entries import install_item, record_weighing
@@ -27,7 +28,6 @@ from ledger.store.sheets import (
 from ledger.testing import assert_close
 from ledger.typedata import parse_type_text
 from ledger.typedata.plan import QuickOptions, read_plan_text
-from ledger.store import guards
 
 LB = 0.45359237  # kg, exact (NIST SP 811)
 IN = 0.0254

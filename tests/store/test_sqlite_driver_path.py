@@ -67,7 +67,7 @@ def test_driver_insert_stores_what_core_insert_stores(sqlite_fleet):
                                                      LedgerEntryRow.item == "rack")
                         .limit(1)).scalar_one()
         assert row.entry_date == e.entry_date == D1
-        assert row.recorded_at.replace(tzinfo=dt.timezone.utc) == e.recorded_at
+        assert row.recorded_at.replace(tzinfo=dt.UTC) == e.recorded_at
         assert (row.item_mass_kg, row.item_x_m, row.item_y_m) == (
             e.item_mass_kg, e.item_x_m, e.item_y_m)
         assert row.entry_hash == e.entry_hash

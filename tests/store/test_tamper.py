@@ -26,7 +26,6 @@ import pytest
 from sqlalchemy import text
 from sqlalchemy.orm import Session
 
-from ledger.errors import ChainError
 from ledger.store import checkpoint, guards
 from ledger.store.catalog import add_vehicle, import_type
 from ledger.store.chain import content_hash

@@ -16,7 +16,6 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ledger.errors import EnvelopeError, NotFoundError, TypeDataError, UnitError
-from ledger.typedata.model import SHAPE_DIMENSIONS
 from ledger.typedata import (
     STANDARD_MASS_SETS,
     VehicleType,
@@ -24,6 +23,7 @@ from ledger.typedata import (
     parse_type,
     parse_type_text,
 )
+from ledger.typedata.model import SHAPE_DIMENSIONS
 
 HERE = Path(__file__).resolve().parent
 BAD = HERE / "bad"
