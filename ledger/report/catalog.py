@@ -6,18 +6,7 @@ revision it came from; the text form shows the same in the type's display units.
 
 from __future__ import annotations
 
-__all__ = ["type_document", "render_type_list", "render_type"]
-
-
-def type_document(vtype, *, revision: int, imported_at: str, content_sha256: str) -> dict:
-    """The JSON document of one type revision."""
-    return {
-        "name": vtype.name,
-        "revision": revision,
-        "imported_at": imported_at,
-        "content_sha256": content_sha256,
-        "spec": vtype.to_dict(),
-    }
+__all__ = ["render_type_list", "render_type"]
 
 
 def _console():
@@ -48,13 +37,14 @@ def _fmt(value_si: float | None, unit: str, digits: int = 1) -> str:
     return "-" if value_si is None else format_quantity(value_si, unit, digits)
 
 
-def render_type(doc: dict) -> None:
-    """Text form of ``type show``, in the type's display units."""
+def render_type(shown) -> None:
+    """Text form of ``type show``, in the type's display units.
+
+    ``shown`` is a :class:`ledger.services.types.TypeRevision`.
+    """
     from rich.table import Table
 
-    from ledger.typedata import VehicleType
-
-    vt = VehicleType.from_dict(doc["spec"])
+    vt = shown.vehicle_type
     u = vt.units
     m, ln = u.mass, u.length
     con = _console()
@@ -63,8 +53,8 @@ def render_type(doc: dict) -> None:
         con.print(text, markup=False)
 
     con.print(f"[bold]{vt.name}[/bold]  {vt.title}", markup=True)
-    say(f"kind {vt.kind}; revision {doc['revision']} imported {doc['imported_at'][:19]}; "
-              f"sha256 {doc['content_sha256'][:12]}")
+    say(f"kind {vt.kind}; revision {shown.revision} imported {shown.imported_at[:19]}; "
+        f"sha256 {shown.content_sha256[:12]}")
     say(f"display units: mass {m}, length {ln}, volume {u.volume}, "
               f"moment index = moment in {u.moment_unit} / {u.moment_divisor:g}")
     say(f"datum: {vt.datum}")
