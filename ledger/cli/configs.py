@@ -36,19 +36,13 @@ def define(ctx: typer.Context,
            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Define a configuration of a type (--type) or of one vehicle (--vehicle)."""
     from ledger.report.ledger import render_configuration
-    from ledger.store.configs import configuration_document, define_configuration, parse_item_spec
-    from ledger.store.db import session_scope
+    from ledger.services.configurations import define_configuration, parse_items
 
-    items = ([{"action": "install", **parse_item_spec(t, field="--install")}
-              for t in install or []]
-             + [{"action": "remove", **parse_item_spec(t, field="--remove")}
-                for t in remove or []])
-    with session_scope(common.state(ctx).engine()) as session:
-        view = define_configuration(session, name, actor=common.actor(by), type_name=type_name,
-                                    registration=registration, items=items,
-                                    description=description,
-                                    disables_stations=disable or [], replace=replace)
-        data = configuration_document(session, view)
+    items = parse_items(install or [], remove or [])
+    data = define_configuration(common.state(ctx).engine(), name, actor=common.actor(by),
+                                type_name=type_name, registration=registration, items=items,
+                                description=description, disables_stations=disable or [],
+                                replace=replace)
     common.emit(data, render_configuration, as_json)
 
 
@@ -57,12 +51,10 @@ def list_(ctx: typer.Context, type_name: str = TYPE_OPTION,
           registration: str = VEHICLE_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """List configurations: of a vehicle (its type's and its own), of a type, or all."""
     from ledger.report.ledger import render_configurations
-    from ledger.store.configs import list_configurations
-    from ledger.store.db import session_scope
+    from ledger.services.configurations import list_configurations
 
-    with session_scope(common.state(ctx).engine()) as session:
-        data = [c.to_dict() for c in list_configurations(session, type_name=type_name,
-                                                         registration=registration)]
+    data = list_configurations(common.state(ctx).engine(), type_name=type_name,
+                               registration=registration)
     common.emit(data, render_configurations, as_json)
 
 
@@ -73,11 +65,8 @@ def show(ctx: typer.Context,
          as_json: bool = common.JSON_OPTION) -> None:
     """Show one configuration; for a vehicle, with removed items resolved from its ledger."""
     from ledger.report.ledger import render_configuration
-    from ledger.store.configs import configuration_document, configuration_items, get_configuration
-    from ledger.store.db import session_scope
+    from ledger.services.configurations import show_configuration
 
-    with session_scope(common.state(ctx).engine()) as session:
-        view = (configuration_items(session, registration, name) if registration
-                else get_configuration(session, name, type_name=type_name))
-        data = configuration_document(session, view)
+    data = show_configuration(common.state(ctx).engine(), name, type_name=type_name,
+                              registration=registration)
     common.emit(data, render_configuration, as_json)
