@@ -1,8 +1,8 @@
 """Integrity commands: ``verify``, ``checkpoint`` and ``checkpoint-key``.
 
-``verify`` recomputes every seal and follows every chain (:mod:`ledger.store.evidence`), and
-compares with hashes kept outside the database: ``--expect`` (printed on a sheet) and
-``--against`` (a checkpoint file, :mod:`ledger.store.checkpoint`).
+The work is :mod:`ledger.services.integrity`: ``verify`` recomputes every seal and follows every
+chain, and compares with hashes kept outside the database: ``--expect`` (printed on a sheet)
+and ``--against`` (a checkpoint file).
 """
 
 from __future__ import annotations
@@ -41,39 +41,17 @@ def verify(ctx: typer.Context,
            as_json: bool = common.JSON_OPTION) -> None:
     """Check every seal and chain: types, vehicles, ledgers, configurations, saved sheets and
     the database's append-only guards; name the first thing that does not match (exit 1)."""
-    from ledger.errors import ChainError, InputError
+    from ledger.errors import ChainError
     from ledger.report.ledger import render_verify
-    from ledger.store import checkpoint as cp
-    from ledger.store.db import session_scope
-    from ledger.store.evidence import parse_hash, verify_fleet
+    from ledger.services.integrity import verify as run_verify
+    from ledger.services.integrity import verify_request
 
-    hashes = [parse_hash(h) for h in expect or ()]
-    if public_key is not None and against is None:
-        raise InputError("--public-key", str(public_key), "only with --against FILE")
-    if exact and against is None:
-        raise InputError("--exact", "true", "only with --against FILE")
-    if against is not None and registration is not None:
-        raise InputError("REG", registration, "none with --against: a checkpoint is compared "
-                         "with the whole database")
-    saved = cp.read(against) if against is not None else None
-    with session_scope(common.state(ctx).engine()) as session:
-        report = verify_fleet(session, registration, expect=hashes)
-        doc = report.to_dict()
-        if saved is not None:
-            found = cp.compare_with(session, saved, report, public_key=public_key)
-            problems = list(found.problems)
-            if exact:
-                problems += [f"added since the checkpoint: {a}" for a in found.added]
-            doc["checkpoint"] = {"file": str(against), "created_at": saved["created_at"],
-                                 **found.to_dict(), "problems": problems, "exact": exact}
-            doc["problems"] += problems
-            doc["ok"] = doc["ok"] and not problems
-    common.emit(doc, render_verify, as_json)
-    if not report.ok:
-        raise ChainError(report.summary())
-    if not doc["ok"]:
-        raise ChainError(f"the database does not match the checkpoint {against}: "
-                         f"{doc['checkpoint']['problems'][0]}")
+    request = verify_request(registration, expect=expect or (), against=against,
+                             public_key=public_key, exact=exact)
+    result = run_verify(common.state(ctx).engine(), request)
+    common.emit(result.document, render_verify, as_json)
+    if result.failure is not None:
+        raise ChainError(result.failure)
 
 
 def checkpoint(ctx: typer.Context,
@@ -85,23 +63,11 @@ def checkpoint(ctx: typer.Context,
                as_json: bool = common.JSON_OPTION) -> None:
     """Write the heads of every chain to FILE, to be kept away from the database; a later
     `wbledger verify --against FILE` catches a rewrite, truncation or forged append since."""
-    import json
-
-    from ledger.files import check_output_path, write_output
-    from ledger.store import checkpoint as cp
-    from ledger.store.db import session_scope
+    from ledger.files import check_output_path
+    from ledger.services.integrity import write_checkpoint
 
     check_output_path(output, "FILE")
-    engine = common.state(ctx).engine()
-    with session_scope(engine) as session:
-        doc = cp.take(session, database=engine.url.render_as_string(hide_password=True))
-    if sign is not None:
-        doc = cp.sign(doc, sign)
-    write_output(output, json.dumps(doc, indent=1, ensure_ascii=False) + "\n", "FILE")
-    summary = {"file": str(output), "created_at": doc["created_at"], "digest": doc["digest"],
-               "types": len(doc["types"]), "vehicles": len(doc["vehicles"]),
-               "configurations": len(doc["configurations"]),
-               "signed": "signature" in doc}
+    summary = write_checkpoint(common.state(ctx).engine(), output, sign=sign).to_dict()
 
     def render(d):
         typer.echo(f"Wrote checkpoint {d['file']}: {d['types']} types, {d['vehicles']} "
@@ -120,18 +86,8 @@ def checkpoint_key(keyfile: Path = typer.Argument(..., metavar="KEYFILE",
                                                        "KEYFILE.pub).")) -> None:
     """Make a new Ed25519 key pair for signing checkpoints (the private key is created 0600
     and never overwrites a file)."""
-    from ledger.errors import InputError
-    from ledger.files import check_output_path, write_new
-    from ledger.store.checkpoint import new_key_pair
+    from ledger.services.integrity import make_key_pair
 
-    public = keyfile.with_name(keyfile.name + ".pub")
-    for path in (keyfile, public):
-        check_output_path(path, "KEYFILE")
-        if path.exists() or path.is_symlink():
-            raise InputError("KEYFILE", str(path), "a new file; it exists already and a key "
-                             "is never overwritten")
-    private_pem, public_pem = new_key_pair()
-    private = write_new(keyfile, private_pem, "KEYFILE")
-    write_new(public, public_pem, "KEYFILE")
-    typer.echo(f"Wrote the private key {private} (keep it secret; only its holder can sign) "
-               f"and the public key {public} (give it to whoever checks).")
+    keys = make_key_pair(keyfile)
+    typer.echo(f"Wrote the private key {keys.private} (keep it secret; only its holder can sign) "
+               f"and the public key {keys.public} (give it to whoever checks).")
