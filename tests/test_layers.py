@@ -41,8 +41,6 @@ ALLOWED: dict[str, set[str]] = {
 
 #: Imports that break the layers today and are being moved (issue 12). Empty when it is done.
 KNOWN: set[tuple[str, str]] = {
-    ("ledger.cli.dbcmds", "ledger.store.db"),
-    ("ledger.cli.dbcmds", "ledger.store.roles"),
     ("ledger.cli.demo", "ledger.store.db"),
     ("ledger.cli.ground", "ledger.analysis"),
     ("ledger.cli.ground", "ledger.analysis.ground"),

@@ -14,48 +14,38 @@ def register(app: typer.Typer) -> None:
     app.add_typer(db_app, name="db")
 
 
-def _report(before, after, backup) -> None:
-    if before == after:
-        typer.echo(f"Schema already at {after}; nothing to do.")
+def _report(change) -> None:
+    if not change.changed:
+        typer.echo(f"Schema already at {change.after}; nothing to do.")
     else:
-        typer.echo(f"Schema {before or 'empty'} -> {after}.")
-    if backup:
-        typer.echo(f"Backup of the previous file: {backup}")
+        typer.echo(f"Schema {change.before or 'empty'} -> {change.after}.")
+    if change.backup:
+        typer.echo(f"Backup of the previous file: {change.backup}")
 
 
 def init(ctx: typer.Context) -> None:
     """Create the ledger database (or bring an existing one up to date)."""
-    from ledger.store.db import init_db
+    from ledger.services.database import init_database
 
-    engine = common.state(ctx).engine(check=False)
-    before, after, backup = init_db(engine)
-    typer.echo(f"Database: {engine.url.render_as_string(hide_password=True)}")
-    _report(before, after, backup)
+    change = init_database(common.state(ctx).engine(check=False))
+    typer.echo(f"Database: {change.url}")
+    _report(change)
 
 
 @db_app.command("upgrade")
 def upgrade(ctx: typer.Context) -> None:
     """Upgrade the schema to this version of wbledger (a SQLite file is backed up first)."""
-    from ledger.store.db import upgrade as do_upgrade
+    from ledger.services.database import upgrade_database
 
-    engine = common.state(ctx).engine(check=False)
-    _report(*do_upgrade(engine))
+    _report(upgrade_database(common.state(ctx).engine(check=False)))
 
 
 @db_app.command("status")
 def status(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
     """Show the database URL, its schema revision and the one this wbledger needs."""
-    from ledger.store.db import current_revision, head_revision
+    from ledger.services.database import database_status
 
-    engine = common.state(ctx).engine(check=False)
-    with engine.connect() as conn:
-        current = current_revision(conn)
-    data = {
-        "url": engine.url.render_as_string(hide_password=True),
-        "schema_revision": current,
-        "required_revision": head_revision(),
-        "up_to_date": current == head_revision(),
-    }
+    data = database_status(common.state(ctx).engine(check=False)).to_dict()
 
     def render(d):
         typer.echo(f"Database:  {d['url']}")
@@ -75,18 +65,16 @@ def roles(ctx: typer.Context,
     """Create the PostgreSQL group roles (auditor, loadmaster, maintenance, weight engineer),
     each granted only what it needs; run as the tables' owner, then grant a role to each
     person's login (GRANT wbledger_loadmaster TO alice)."""
-    from ledger.store.roles import ROLE_GRANTS, create_roles, roles_sql
+    from ledger.services.database import create_roles, roles_sql
 
     if dry_run:
         for stmt in roles_sql(prefix):
             typer.echo(stmt + ";")
         return
-    engine = common.state(ctx).engine()
-    with engine.begin() as conn:
-        names = create_roles(conn, prefix)
-    for role, name in names.items():
-        inserts, _ = ROLE_GRANTS[role]
-        may = ("read" + (f"; add rows to {', '.join(inserts)}" if inserts else ""))
-        typer.echo(f"{name}: {may}")
+    made = create_roles(common.state(ctx).engine(), prefix)
+    for r in made:
+        may = ("read" + (f"; add rows to {', '.join(r.inserts)}" if r.inserts else ""))
+        typer.echo(f"{r.name}: {may}")
+    loadmaster = next(r.name for r in made if r.role == "loadmaster")
     typer.echo("No role owns a table: grant one to each person's login, e.g. "
-               f"GRANT {names['loadmaster']} TO alice;")
+               f"GRANT {loadmaster} TO alice;")
