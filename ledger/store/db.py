@@ -41,6 +41,7 @@ __all__ = [
     "resolve_url",
     "make_engine",
     "session_scope",
+    "HEAD_REVISION",
     "migrations_dir",
     "alembic_config",
     "head_revision",
@@ -52,6 +53,13 @@ __all__ = [
 ]
 
 ENV_VAR = "WBLEDGER_DB"
+
+#: The newest migration this version of wbledger knows (``tests/store/test_head_revision.py``
+#: holds it equal to the head of the Alembic scripts). Every command compares the database with
+#: it; a constant spares each one importing Alembic and reading the scripts to learn it.
+HEAD_REVISION = "0003"
+#: The table where Alembic keeps the revision a database is at.
+VERSION_TABLE = "alembic_version"
 BUSY_TIMEOUT_MS = 60_000
 
 
@@ -267,17 +275,32 @@ def alembic_config(connection: Connection | None = None):
 
 
 def head_revision() -> str:
-    """The newest migration this version of wbledger knows."""
+    """The newest migration this version of wbledger knows (:data:`HEAD_REVISION`)."""
+    return HEAD_REVISION
+
+
+def script_revisions() -> set[str]:
+    """Every revision of the Alembic scripts shipped with this version (reads the scripts)."""
     from alembic.script import ScriptDirectory
 
-    return ScriptDirectory.from_config(alembic_config()).get_current_head()
+    return {s.revision for s in ScriptDirectory.from_config(alembic_config()).walk_revisions()}
 
 
 def current_revision(connection: Connection) -> str | None:
-    """The migration the database is at, or ``None`` for a database never initialised."""
-    from alembic.runtime.migration import MigrationContext
+    """The migration the database is at, or ``None`` for a database never initialised.
 
-    return MigrationContext.configure(connection).get_current_revision()
+    Read as Alembic reads it (``MigrationContext.get_current_revision``), without importing
+    Alembic: every command asks.
+    """
+    if not connection.dialect.has_table(connection, VERSION_TABLE):
+        return None
+    heads = [row[0] for row in connection.exec_driver_sql(
+        f"SELECT version_num FROM {VERSION_TABLE}")]
+    if len(heads) > 1:
+        raise SchemaError(f"the database's table {VERSION_TABLE} names {len(heads)} schema "
+                          f"revisions ({', '.join(sorted(heads))}); wbledger's migrations "
+                          "have one line of history, so it was changed by hand")
+    return heads[0] if heads else None
 
 
 def _describe(url: str) -> str:
@@ -305,10 +328,7 @@ def check_schema(engine: Engine) -> None:
         raise SchemaError(
             f"the database {where} has no wbledger schema; run `wbledger init` first"
         )
-    from alembic.script import ScriptDirectory
-
-    known = {s.revision for s in ScriptDirectory.from_config(alembic_config()).walk_revisions()}
-    if current not in known:
+    if current not in script_revisions():
         raise SchemaError(
             f"the database {where} is at schema {current}, newer than this wbledger knows "
             f"(head {head}); upgrade wbledger itself"
