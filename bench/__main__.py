@@ -1,7 +1,8 @@
 """`make bench`: every benchmark, each figure a ratio against a baseline measured in this run.
 
 Lines read ``bench NAME: ratio R (target T)``. Run one module alone with
-``python -m bench.bench_core`` or ``python -m bench.bench_ledger``.
+``python -m bench.bench_core``, ``python -m bench.bench_ledger`` or
+``python -m bench.bench_check``.
 """
 
 from __future__ import annotations
@@ -10,7 +11,7 @@ import importlib
 import os
 import platform
 
-MODULES = ("bench.bench_core", "bench.bench_ledger")
+MODULES = ("bench.bench_core", "bench.bench_ledger", "bench.bench_check")
 
 
 def main() -> None:
