@@ -68,9 +68,6 @@ KNOWN: set[tuple[str, str]] = {
     ("ledger.cli.maintenance", "ledger.store.entries"),
     ("ledger.cli.maintenance", "ledger.store.transfer"),
     ("ledger.cli.maintenance", "ledger.store.views"),
-    ("ledger.cli.sheets", "ledger.store.db"),
-    ("ledger.cli.sheets", "ledger.store.sheets"),
-    ("ledger.cli.sheets", "ledger.typedata.plan"),
     ("ledger.cli.types", "ledger.store.catalog"),
     ("ledger.cli.types", "ledger.store.db"),
     ("ledger.cli.types", "ledger.typedata"),
@@ -78,9 +75,6 @@ KNOWN: set[tuple[str, str]] = {
     ("ledger.cli.vehicles", "ledger.store.db"),
     ("ledger.cli.vehicles", "ledger.store.views"),
     ("ledger.report.catalog", "ledger.typedata"),
-    ("ledger.store.sheets", "ledger.loadsheet"),
-    ("ledger.store.sheets", "ledger.loadsheet.amend"),
-    ("ledger.store.sheets", "ledger.loadsheet.text"),
 }
 
 
