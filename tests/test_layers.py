@@ -45,7 +45,6 @@ KNOWN: set[tuple[str, str]] = {
     ("ledger.cli.configs", "ledger.store.db"),
     ("ledger.cli.dbcmds", "ledger.store.db"),
     ("ledger.cli.dbcmds", "ledger.store.roles"),
-    ("ledger.cli.demo", "ledger.store.db"),
     ("ledger.cli.ground", "ledger.analysis"),
     ("ledger.cli.ground", "ledger.analysis.ground"),
     ("ledger.cli.ground", "ledger.rules"),
