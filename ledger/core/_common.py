@@ -5,9 +5,13 @@ Private to :mod:`ledger.core`; the public functions of the core modules call the
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
-__all__ = ["plain"]
+from ledger.errors import InputError
+
+__all__ = ["plain", "finite_float"]
 
 
 def plain(a):
@@ -20,3 +24,27 @@ def plain(a):
     """
     a = np.asarray(a)
     return a.item() if a.ndim == 0 else a
+
+
+def finite_float(value, field: str, allowed: str, error: type[InputError] = InputError) -> float:
+    """``value`` as a finite float, else ``error(field, value, allowed)``.
+
+    ``error`` is the narrow :class:`~ledger.errors.InputError` subclass of the calling module
+    (for example :class:`~ledger.errors.MassPropertiesError`).
+
+    Examples
+    --------
+    >>> finite_float("2.5", "wheelbase", "a finite length in m")
+    2.5
+    >>> finite_float(float("nan"), "wheelbase", "a finite length in m")
+    Traceback (most recent call last):
+    ...
+    ledger.errors.InputError: wheelbase = nan: a finite length in m
+    """
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        raise error(field, value, allowed) from None
+    if not math.isfinite(v):
+        raise error(field, v, allowed)
+    return v
