@@ -1,0 +1,61 @@
+"""How values and figures are shown in the one-line errors of type and plan files."""
+
+from __future__ import annotations
+
+from ledger import units as U
+
+
+class _Shown:
+    """A value shown in an error message as written here (no quotes)."""
+
+    def __init__(self, text: str) -> None:
+        self.text = text
+
+    def __str__(self) -> str:
+        return self.text
+
+
+_MISSING = _Shown("(missing)")
+
+
+def _show(value):
+    """A value as an error message shows it: scalars as they are, containers abridged."""
+    if isinstance(value, _Shown):
+        return value
+    if isinstance(value, bool):
+        return _Shown("true" if value else "false")
+    if isinstance(value, (str, int, float)):
+        return value
+    text = repr(value)
+    return _Shown(text if len(text) <= 60 else text[:57] + "...")
+
+
+def _typename(value) -> str:
+    if isinstance(value, bool):
+        return "a boolean"
+    if isinstance(value, str):
+        return "a string"
+    if isinstance(value, int):
+        return "an integer"
+    if isinstance(value, float):
+        return "a number"
+    if isinstance(value, dict):
+        return "a table"
+    if isinstance(value, list):
+        return "an array"
+    return "a date/time"
+
+
+def _disp(value_si: float, unit: str) -> str:
+    """A figure in a display unit for a message: '2450 lb', '1156.66 kg'."""
+    v = round(U.to_unit(value_si, unit), 6) + 0.0
+    return f"{v:.10g} {unit}"
+
+
+def _listing(words) -> str:
+    return ", ".join(words)
+
+
+def _a(word: str) -> str:
+    """'an airplane', 'a helicopter'."""
+    return f"an {word}" if word[:1] in "aeiou" else f"a {word}"
