@@ -18,8 +18,9 @@ class _Shown:
 _MISSING = _Shown("(missing)")
 
 
-def _show(value):
-    """A value as an error message shows it: scalars as they are, containers abridged."""
+def _show(value, limit: int | None = 60):
+    """A value as an error message shows it: scalars as they are, containers as their repr,
+    abridged to ``limit`` characters (plans show them whole: ``limit=None``)."""
     if isinstance(value, _Shown):
         return value
     if isinstance(value, bool):
@@ -27,7 +28,7 @@ def _show(value):
     if isinstance(value, (str, int, float)):
         return value
     text = repr(value)
-    return _Shown(text if len(text) <= 60 else text[:57] + "...")
+    return _Shown(text if limit is None or len(text) <= limit else text[:limit - 3] + "...")
 
 
 def _typename(value) -> str:
@@ -46,10 +47,11 @@ def _typename(value) -> str:
     return "a date/time"
 
 
-def _disp(value_si: float, unit: str) -> str:
-    """A figure in a display unit for a message: '2450 lb', '1156.66 kg'."""
+def _disp(value_si: float, unit: str, digits: int = 10) -> str:
+    """A figure in a display unit for a message, to ``digits`` significant digits: '2450 lb',
+    '1156.66 kg'."""
     v = round(U.to_unit(value_si, unit), 6) + 0.0
-    return f"{v:.10g} {unit}"
+    return f"{v:.{digits}g} {unit}"
 
 
 def _listing(words) -> str:
