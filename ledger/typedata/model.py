@@ -26,7 +26,8 @@ import typing
 from dataclasses import dataclass, field
 
 from ledger.errors import NotFoundError, TypeDataError
-from ledger.units import DisplayUnits
+from ledger.units import LB as _LB
+from ledger.units import US_GALLON, DisplayUnits
 
 __all__ = [
     "CANONICAL_VERSION",
@@ -87,8 +88,7 @@ SHAPE_DIMENSIONS = {
     "sphere": ("radius",),
 }
 
-_LB = 0.45359237  # kg, exact (NIST SP 811 appendix B)
-_LB_PER_USGAL = _LB / 3.785411784e-3  # kg/m3 per lb/USgal
+_LB_PER_USGAL = _LB / US_GALLON  # kg/m3 per lb/USgal
 
 
 @dataclass(frozen=True)
