@@ -470,7 +470,7 @@ def max_addable_mass(total_mass, cg, arm, *, mass_limit, envelope=None, moment_e
                        float(_arr(cg_y, "cg_y")), float(_arr(arm_y, "arm_y")), 1.0))
     for name, poly, kind, cg0, arm0, red in checks:
         field = "lateral_envelope" if name == "lateral envelope" else "envelope"
-        prep = _env._prepare(poly, tol, field=field)
+        prep = _env.prepare_envelope(poly, tol, field=field)
         x0 = M * cg0 / red if kind == "moment" else cg0
         if not _env.covers(prep.P, x0, M, tol=prep.tol):
             raise CorrectionError(

@@ -133,6 +133,7 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
     def run_jit(start: int, stop: int):
         # One compiled pass (ledger.core._jit); the same screens and the same exact-scan
         # points as the numpy chunks below.
+        assert jit is not None
         idx = np.empty(stop - start, dtype=np.intp)
         negative, finite, k = jit[0](M, a_c, env._origin, env._inv, env._table, env._K,
                                      env._thr, mass, cg, inside, margin, idx, start, stop)

@@ -515,13 +515,13 @@ def test_format_page_example_parses():
 
 
 def test_format_page_documents_every_key():
-    from ledger.typedata import parse as P
+    from ledger.typedata import type_keys as P
 
-    keys = set(P._TOP_KEYS + P._VEHICLE_KEYS + P._UNITS_KEYS + P._DATUM_KEYS + P._MAC_KEYS
-               + P._LIMIT_KEYS + P._STATION_KEYS + P._TANK_KEYS + P._ARM_ROW_KEYS
-               + P._ENVELOPE_KEYS + P._REACTION_KEYS + P._AXLE_KEYS + P._AXLE_GROUP_KEYS
-               + P._TOLERANCE_KEYS + P._CONFIG_KEYS + P._ITEM_KEYS + P._MASS_SET_KEYS)
-    keys |= {k for ks in P._INERTIA_KEYS.values() for k in ks}
+    keys = set(P.TOP_KEYS + P.VEHICLE_KEYS + P.UNITS_KEYS + P.DATUM_KEYS + P.MAC_KEYS
+               + P.LIMIT_KEYS + P.STATION_KEYS + P.TANK_KEYS + P.ARM_ROW_KEYS
+               + P.ENVELOPE_KEYS + P.REACTION_KEYS + P.AXLE_KEYS + P.AXLE_GROUP_KEYS
+               + P.TOLERANCE_KEYS + P.CONFIG_KEYS + P.ITEM_KEYS + P.MASS_SET_KEYS)
+    keys |= {k for ks in P.INERTIA_KEYS.values() for k in ks}
     keys |= {k for ks in SHAPE_DIMENSIONS.values() for k in ks}
     missing = sorted(k for k in keys if f"`{k}`" not in FORMAT_MD)
     assert missing == []
