@@ -47,7 +47,20 @@ from sqlalchemy.orm import Session
 
 from ledger.bounds import TEXT_MAX, check_text
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
-from ledger.store.chain import ABSOLUTE_KINDS, GENESIS_HASH, canonical_json, content_hash
+from ledger.core.ledger_rule import (
+    ABSOLUTE_KINDS,
+    EmptyMassNotPositive,
+    EntryEffect,
+    EntryOutOfOrder,
+    FirstEntryNotWeighing,
+    Moments,
+    RunningState,
+    apply_entry,
+    item_delta,
+    leaves_installed,
+    reversal_delta,
+)
+from ledger.store.chain import GENESIS_HASH, canonical_json, content_hash
 from ledger.store.models import (
     ENTRY_KINDS,
     LedgerEntryRow,
@@ -452,6 +465,42 @@ def _vehicle(session: Session, registration: str, *, lock: bool = False) -> _Veh
     return _Vehicle(*row)
 
 
+class _Head(NamedTuple):
+    """The newest entry of a vehicle, as the append path reads it."""
+
+    seq: int
+    entry_date: dt.date
+    mass_kg: float
+    mx_kgm: float
+    my_kgm: float
+    mz_kgm: float
+    z_known: int
+    baseline_seq: int
+    entry_hash: str
+
+    def state(self) -> RunningState:
+        return RunningState(self.seq, self.entry_date, self.mass_kg, self.mx_kgm, self.my_kgm,
+                            self.mz_kgm, bool(self.z_known), self.baseline_seq)
+
+
+class _ItemState(NamedTuple):
+    """The newest entry that names an item, as the append path reads it."""
+
+    seq: int
+    kind: str
+    entry_date: dt.date
+    mass_kg: float
+    x_m: float
+    y_m: float
+    z_m: float | None
+    detail_json: str
+
+    @property
+    def installed(self) -> bool:
+        """Whether this entry left the item installed."""
+        return _installs(self.kind, self.detail_json)
+
+
 _HEAD_COLS = (_E.seq, _E.entry_date, _E.empty_mass_kg, _E.empty_mx_kgm, _E.empty_my_kgm,
               _E.empty_mz_kgm, _E.z_known, _E.baseline_seq, _E.entry_hash)
 _ITEM_COLS = (_E.seq, _E.kind, _E.entry_date, _E.item_mass_kg, _E.item_x_m, _E.item_y_m,
@@ -554,9 +603,10 @@ def _sqlite_vehicle_head_item(dialect):
     return compiled.string, tuple(compiled.positiontup), fixed, tuple(procs)
 
 
-def _head(session: Session, vehicle_id: int):
-    """(seq, date, m, mx, my, mz, z_known, baseline_seq, hash) of the newest entry, or None."""
-    return session.connection().execute(_HEAD, {"vid": vehicle_id}).first()
+def _head(session: Session, vehicle_id: int) -> _Head | None:
+    """The newest entry of vehicle ``vehicle_id``, or None."""
+    row = session.connection().execute(_HEAD, {"vid": vehicle_id}).first()
+    return None if row is None else _Head(*row)
 
 
 def _no_weighing(registration: str) -> ConflictError:
@@ -645,50 +695,17 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
     vehicle = _vehicle_row if _vehicle_row is not None else _vehicle(session, registration,
                                                                       lock=True)
     head = _head(session, vehicle.id) if _head_row is False else _head_row
-    if head is None:
-        if kind != "weighing":
-            raise _no_weighing(registration)
-        seq, prev_hash, base_seq = 1, GENESIS_HASH, 1
-        pm = pmx = pmy = pmz = 0.0
-        p_zk = 0
-    else:
-        h_seq, h_date, pm, pmx, pmy, pmz, p_zk, h_base, prev_hash = head
-        if day < h_date:
-            raise InputError("--date", day.isoformat(),
-                             f"a date on or after that of entry {h_seq} ({h_date}): entries "
-                             "are kept in date order",
-                             hint="Record it with today's date and give the date of the work "
-                                  "in --reason")
-        seq = h_seq + 1
-        base_seq = seq if kind == "weighing" else h_base
-    if absolute:
-        m, mx, my, mz = (float(v) + 0.0 if v is not None else None for v in state)
-        z_known = mz is not None
-        mz = 0.0 if mz is None else mz
-        dm, dmx, dmy, dmz = m - pm, mx - pmx, my - pmy, mz - pmz
-    else:
-        dm, dmx, dmy, dmz = (float(v) + 0.0 if v is not None else None for v in delta)
-        z_known = bool(p_zk) and dmz is not None
-        dmz = 0.0 if dmz is None else dmz
-        m, mx, my, mz = pm + dm, pmx + dmx, pmy + dmy, pmz + dmz
-    if not m > 0:
-        from ledger.units import format_quantity
-
-        raise ConflictError(
-            f"this {kind} would leave vehicle {registration!r} with an empty mass of "
-            f"{format_quantity(m, 'kg', 3)}; the empty mass must stay above 0 kg")
+    effect = _apply(head, kind, day, Moments(*given), registration)
     values = {
-        "vehicle_id": vehicle.id, "seq": seq, "kind": kind, "entry_date": day,
+        "vehicle_id": vehicle.id, "kind": kind, "entry_date": day,
         "recorded_at": _now() if recorded_at is None else _utc(recorded_at),
         "actor": actor_text,
         "reason": _text(reason, "--reason", max_len=4000),
         "reference": _text(reference, "--ref"), "item": _text(item, "item"),
         "item_mass_kg": item_mass_kg, "item_x_m": item_x_m, "item_y_m": item_y_m,
-        "item_z_m": item_z_m,
-        "delta_mass_kg": dm, "delta_mx_kgm": dmx, "delta_my_kgm": dmy, "delta_mz_kgm": dmz,
-        "empty_mass_kg": m, "empty_mx_kgm": mx, "empty_my_kgm": my, "empty_mz_kgm": mz,
-        "z_known": int(z_known), "baseline_seq": base_seq, "reverses_seq": reverses_seq,
-        "detail_json": canonical_json(dict(detail or {})), "prev_hash": prev_hash,
+        "item_z_m": item_z_m, **effect.columns(), "reverses_seq": reverses_seq,
+        "detail_json": canonical_json(dict(detail or {})),
+        "prev_hash": GENESIS_HASH if head is None else head.entry_hash,
     }
     for k in ("item_mass_kg", "item_x_m", "item_y_m", "item_z_m"):
         if values[k] is not None:
@@ -700,8 +717,31 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
     else:
         new_id = conn.execute(_INSERT, values).inserted_primary_key[0]
     values.pop("vehicle_id")
-    values["z_known"] = bool(z_known)
+    values["z_known"] = effect.after.z_known
     return Entry(registration=vehicle.registration, id=new_id, **values)
+
+
+def _apply(head: _Head | None, kind: str, day: dt.date, given: Moments,
+           registration: str) -> EntryEffect:
+    """:func:`ledger.core.ledger_rule.apply_entry` on the vehicle's newest entry, its refusals
+    worded for an entry recorded by hand."""
+    try:
+        return apply_entry(RunningState() if head is None else head.state(), kind, day, given)
+    except FirstEntryNotWeighing:
+        raise _no_weighing(registration) from None
+    except EntryOutOfOrder as exc:
+        raise InputError("--date", day.isoformat(),
+                         f"a date on or after that of entry {exc.previous_seq} "
+                         f"({exc.previous_date}): entries are kept in date order",
+                         hint="Record it with today's date and give the date of the work "
+                              "in --reason") from None
+    except EmptyMassNotPositive as exc:
+        from ledger.units import format_quantity
+
+        raise ConflictError(
+            f"this {kind} would leave vehicle {registration!r} with an empty mass of "
+            f"{format_quantity(exc.mass_kg, 'kg', 3)}; the empty mass must stay above 0 kg"
+        ) from None
 
 
 def _head_and_item(session: Session, vehicle_id: int, name: str):
@@ -710,8 +750,8 @@ def _head_and_item(session: Session, vehicle_id: int, name: str):
                                                         "item": name}).first()
     if row is None:  # no entry at all
         return None, None
-    head, item = tuple(row[:9]), tuple(row[9:])
-    return head, (item if item[0] is not None else None)
+    head, item = _Head(*row[:9]), row[9:]
+    return head, (_ItemState(*item) if item[0] is not None else None)
 
 
 def _locked_item_state(session: Session, registration: str, name: str):
@@ -737,23 +777,22 @@ def _locked_item_state(session: Session, registration: str, name: str):
         from ledger.store.catalog import get_vehicle
 
         get_vehicle(session, registration)  # raises NotFoundError with the known vehicles
-    head = tuple(row[3:12]) if row[3] is not None else None
-    item = tuple(row[12:]) if row[12] is not None else None
+    head = _Head(*row[3:12]) if row[3] is not None else None
+    item = _ItemState(*row[12:]) if row[12] is not None else None
     return _Vehicle(*row[:3]), head, item
 
 
-def _item_state(session: Session, vehicle_id: int, name: str):
-    """The newest entry that names item ``name``: (seq, kind, date, mass, x, y, z, detail)."""
-    return session.connection().execute(_ITEM, {"vid": vehicle_id, "item": name}).first()
+def _item_state(session: Session, vehicle_id: int, name: str) -> _ItemState | None:
+    """The newest entry that names item ``name``, or None."""
+    row = session.connection().execute(_ITEM, {"vid": vehicle_id, "item": name}).first()
+    return None if row is None else _ItemState(*row)
 
 
 def _installs(kind: str, detail_json: str) -> bool:
     """Whether an entry of ``kind`` that names an item leaves that item installed."""
-    if kind == "install":
-        return True
     if kind == "correction":
-        return json.loads(detail_json).get("reverses_kind") == "remove"
-    return False
+        return leaves_installed(kind, json.loads(detail_json).get("reverses_kind"))
+    return leaves_installed(kind)
 
 
 def _units_for(session: Session, vehicle: _Vehicle, *values) -> Any:
@@ -790,12 +829,12 @@ def install_item(session: Session, registration: str, item: str, *, mass, arm,
     y = 0.0 if lat_arm is None else _length(lat_arm, units, "--lat-arm")
     z = None if vert_arm is None else _length(vert_arm, units, "--vert-arm")
     shp = parse_shape(shape, units)
-    if state is not None and _installs(state[1], state[7]):
+    if state is not None and state.installed:
         raise ConflictError(f"item {name!r} is installed on {registration} already (entry "
-                            f"{state[0]}); remove it first or give this one another name")
+                            f"{state.seq}); remove it first or give this one another name")
     detail = {"shape": shp} if shp else {}
     return append_entry(session, registration, "install", actor=actor, entry_date=entry_date,
-                        delta=(m, m * x, m * y, None if z is None else m * z), reason=reason,
+                        delta=item_delta("install", m, x, y, z), reason=reason,
                         reference=reference, item=name, item_mass_kg=m, item_x_m=x,
                         item_y_m=y, item_z_m=z, detail=detail, _vehicle_row=vehicle,
                         _head_row=head)
@@ -816,11 +855,11 @@ def remove_item(session: Session, registration: str, item: str, *, mass=None, ar
     name = _text(item, "ITEM", required=True)
     _text(reason, "--reason", required=True, max_len=4000)
     vehicle, head, state = _locked_item_state(session, registration, name)
-    if state is None or not _installs(state[1], state[7]):
+    if state is None or not state.installed:
         on = installed_items(session, registration, _vehicle_row=vehicle)
         known = ", ".join(repr(i.name) for i in on[:12]) or "none"
         why = ("was never installed" if state is None
-               else f"is not installed (removed by entry {state[0]})")
+               else f"is not installed (removed by entry {state.seq})")
         raise ConflictError(f"item {name!r} {why} on {registration}; installed items: {known}")
     seq0, _kind, _date, m0, x0, y0, z0, detail0 = state
     units = _units_for(session, vehicle, mass, arm, lat_arm, vert_arm)
@@ -835,7 +874,7 @@ def remove_item(session: Session, registration: str, item: str, *, mass=None, ar
     if (m, x, y, z) != (m0, x0, y0, z0):
         detail["as_installed"] = {"mass_kg": m0, "x_m": x0, "y_m": y0, "z_m": z0}
     return append_entry(session, registration, "remove", actor=actor, entry_date=entry_date,
-                        delta=(-m, -m * x, -m * y, None if z is None else -m * z),
+                        delta=item_delta("remove", m, x, y, z),
                         reason=reason, reference=reference, item=name, item_mass_kg=m,
                         item_x_m=x, item_y_m=y, item_z_m=z, detail=detail,
                         _vehicle_row=vehicle, _head_row=head)
@@ -888,19 +927,19 @@ def correct_entry(session: Session, registration: str, seq: int, *, reason: str,
         raise ConflictError(f"entry {seq} of {registration} was reversed already by entry "
                             f"{done}")
     latest = _item_state(session, vehicle.id, target.item)
-    if latest is not None and latest[0] != seq:
+    if latest is not None and latest.seq != seq:
         raise ConflictError(f"entry {seq} of {registration} ({target.kind} of "
-                            f"{target.item!r}) cannot be reversed: entry {latest[0]} changed "
-                            f"{target.item!r} since; reverse entry {latest[0]} first")
+                            f"{target.item!r}) cannot be reversed: entry {latest.seq} changed "
+                            f"{target.item!r} since; reverse entry {latest.seq} first")
     detail = {"reverses_kind": target.kind}
     shape = target.detail.get("shape")
     if shape:
         detail["shape"] = shape
-    dmz = None if target.item_z_m is None else -target.delta_mz_kgm
     return append_entry(session, registration, "correction", actor=actor,
                         entry_date=entry_date,
-                        delta=(-target.delta_mass_kg, -target.delta_mx_kgm,
-                               -target.delta_my_kgm, dmz),
+                        delta=reversal_delta(target.delta_mass_kg, target.delta_mx_kgm,
+                                             target.delta_my_kgm, target.delta_mz_kgm,
+                                             target.item_z_m),
                         reason=why, reference=reference, item=target.item,
                         item_mass_kg=target.item_mass_kg, item_x_m=target.item_x_m,
                         item_y_m=target.item_y_m, item_z_m=target.item_z_m,
@@ -923,7 +962,7 @@ def record_cg_height(session: Session, registration: str, z_m, *, actor: str,
     head = _head(session, vehicle.id)
     if head is None:
         raise _no_weighing(registration)
-    m, mx, my = head[2], head[3], head[4]
+    m, mx, my = head.mass_kg, head.mx_kgm, head.my_kgm
     return append_entry(session, registration, "cg_height", actor=actor,
                         entry_date=entry_date, state=(m, mx, my, m * z), reason=reason,
                         reference=reference, detail={"cg_z_m": z, **dict(detail or {})},
