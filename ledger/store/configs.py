@@ -141,10 +141,10 @@ def parse_item_spec(text: str, *, field: str = "--install") -> dict:
     {'name': 'stretcher', 'mass': '15 kg', 'x': '3.1 m', 'y': '0.2 m', 'z': None}
     >>> parse_item_spec("seat 3")
     {'name': 'seat 3', 'mass': None, 'x': None, 'y': None, 'z': None}
-    >>> parse_item_spec("pod=40 kg")
+    >>> parse_item_spec("pod=40 kg")  # doctest: +ELLIPSIS
     Traceback (most recent call last):
     ...
-    ledger.errors.InputError: --install = 'pod=40 kg': NAME=MASS@ARM[,LAT[,VERT]], e.g. 'stretcher=15 kg@120 in', or NAME alone for an installed item to remove
+    ledger.errors.InputError: --install = 'pod=40 kg': NAME=MASS@ARM[,LAT[,VERT]], e.g. ...
     """
     m = _SPEC.match(text or "")
     if not m or ("=" in text and m.group("mass") is None):

@@ -43,9 +43,9 @@ def configuration_problems(session: Session, type_names: dict[int, str],
     rows = session.scalars(select(ConfigurationRow).order_by(
         ConfigurationRow.type_id, ConfigurationRow.vehicle_id, ConfigurationRow.name,
         ConfigurationRow.version)).all()
-    for (tid, vid, _name), group in itertools.groupby(
+    for (tid, vid, _name), versions in itertools.groupby(
             rows, key=lambda r: (r.type_id, r.vehicle_id, r.name)):
-        group = list(group)
+        group = list(versions)
         key = ("type", tid) if tid is not None else ("vehicle", vid)
         owner = type_names.get(tid) if tid is not None else registrations.get(vid)
         counts[key] = counts.get(key, 0) + len(group)
