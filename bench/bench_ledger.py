@@ -275,8 +275,8 @@ RAW_VERIFY_SQL = ("SELECT * FROM ledger_entries ORDER BY vehicle_id, seq",
 def _add_sheets(eng, regs: list[str], per_vehicle: int) -> None:
     """``per_vehicle`` saved sheets of an (empty) plan for each of ``regs``, through the
     library's save path (content hash, links, seal, chain)."""
+    from ledger.services.sheets import prepare_sheet, save_prepared
     from ledger.store.db import session_scope
-    from ledger.store.sheets import prepare_sheet, save_prepared
 
     with session_scope(eng) as s:
         prepared = prepare_sheet(s, {"plan_format": 1, "vehicle": regs[0]}, source="bench",

@@ -41,7 +41,6 @@ ALLOWED: dict[str, set[str]] = {
 
 #: Imports that break the layers today and are being moved (issue 12). Empty when it is done.
 KNOWN: set[tuple[str, str]] = {
-    ("ledger.cli.demo", "ledger.store.db"),
     ("ledger.cli.ground", "ledger.analysis"),
     ("ledger.cli.ground", "ledger.analysis.ground"),
     ("ledger.cli.ground", "ledger.rules"),
@@ -60,15 +59,9 @@ KNOWN: set[tuple[str, str]] = {
     ("ledger.cli.maintenance", "ledger.store.entries"),
     ("ledger.cli.maintenance", "ledger.store.transfer"),
     ("ledger.cli.maintenance", "ledger.store.views"),
-    ("ledger.cli.sheets", "ledger.store.db"),
-    ("ledger.cli.sheets", "ledger.store.sheets"),
-    ("ledger.cli.sheets", "ledger.typedata.plan"),
     ("ledger.cli.vehicles", "ledger.store.catalog"),
     ("ledger.cli.vehicles", "ledger.store.db"),
     ("ledger.cli.vehicles", "ledger.store.views"),
-    ("ledger.store.sheets", "ledger.loadsheet"),
-    ("ledger.store.sheets", "ledger.loadsheet.amend"),
-    ("ledger.store.sheets", "ledger.loadsheet.text"),
 }
 
 

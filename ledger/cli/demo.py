@@ -18,8 +18,6 @@ import typer
 
 from ledger.cli import common
 
-DEMO_DB_NAME = "demo.sqlite3"
-
 
 def register(app: typer.Typer) -> None:
     app.command("demo")(demo)
@@ -125,37 +123,6 @@ def _steps(fleet: Path, out: Path, today: dt.date) -> list[tuple[str, list[str]]
     return steps
 
 
-def _prepare_database(db_url: str | None, out: Path) -> str:
-    """The URL the demo writes to: an empty named database, or a fresh file of its own."""
-    from sqlalchemy import inspect
-
-    from ledger.store.db import make_engine
-
-    if db_url:
-        engine = make_engine(db_url)
-        try:
-            tables = set(inspect(engine).get_table_names())
-            if "vehicles" in tables:
-                from sqlalchemy import text
-
-                with engine.connect() as conn:
-                    count = conn.execute(text("SELECT count(*) FROM vehicles")).scalar()
-                if count:
-                    common.fail(
-                        f"the demo needs an empty database, and {db_url} already holds "
-                        f"{count} vehicle(s); unset WBLEDGER_DB or give --db a new database")
-        finally:
-            engine.dispose()
-        return db_url
-    from ledger.files import make_private_folder
-
-    make_private_folder(out)
-    path = out / DEMO_DB_NAME
-    for leftover in (path, path.with_name(path.name + "-wal"), path.with_name(path.name + "-shm")):
-        leftover.unlink(missing_ok=True)
-    return f"sqlite:///{path}"
-
-
 def demo(ctx: typer.Context,
          out: Path = typer.Option(Path("wbledger-demo"), "--out", help="Folder for the demo "
                                   "database, PDFs and CSV files (made anew each run)."),
@@ -164,10 +131,9 @@ def demo(ctx: typer.Context,
     from typer.main import get_command
 
     from ledger.cli import app
-    from ledger.files import make_private_folder
+    from ledger.services.demo import demo_database
 
-    db_url = _prepare_database(common.state(ctx).db_url or _env_db(), out)
-    make_private_folder(out)  # 0700 when new; an existing folder keeps its mode
+    db_url = demo_database(common.state(ctx).db_url, out).url
     fleet = demo_fleet_dir()
     command = get_command(app)
     con = common.console()
@@ -193,11 +159,3 @@ def demo(ctx: typer.Context,
               "kva-t75-inertia.csv, kva-d07-inertia.csv, and the demo database.", markup=False)
     con.print(f"Try it yourself: export WBLEDGER_DB={db_url} and run `wbledger --help`.",
               markup=False)
-
-
-def _env_db() -> str | None:
-    import os
-
-    from ledger.store.db import ENV_VAR
-
-    return os.environ.get(ENV_VAR)

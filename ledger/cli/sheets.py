@@ -9,8 +9,10 @@
     wbledger sheet list [REG] [--json]
     wbledger check (PLAN.toml | REG …) [--json]      exit 0 in limits, 1 out, 2 bad input
 
-The first argument of ``sheet`` and ``check`` is a plan file (a path that exists or ends in
-``.toml``) or a registration; quick options add to or change the plan (``docs/plan-format.md``).
+Each command makes its call into :mod:`ledger.services.sheets` or :mod:`ledger.services.check`
+and renders the result with :mod:`ledger.report`. The first argument of ``sheet`` and ``check``
+is a plan file (a path that exists or ends in ``.toml``) or a registration; quick options add
+to or change the plan (``docs/plan-format.md``).
 A sheet out of limits is printed with its fixes and exits with code 1; bad input exits with
 code 2 and writes nothing.
 """
@@ -86,35 +88,12 @@ SVG = typer.Option(None, "--svg", metavar="FILE", help="Also write the sheet as 
 
 def _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration, category, masses,
              axle_rules):
-    from ledger.typedata.plan import QuickOptions
+    from ledger.services.sheets import QuickOptions
 
     return QuickOptions(persons=tuple(person), cargo=tuple(cargo), fuel=tuple(fuel),
                         vacate=tuple(vacate), taxi=taxi, trip=trip, burn=burn,
                         configuration=configuration, category=category,
                         standard_masses=masses, axle_rules=axle_rules)
-
-
-def _is_file(target: str) -> bool:
-    # A registration never holds a path separator, so such an argument is a (mistyped) path.
-    return (target.lower().endswith(".toml") or Path(target).exists()
-            or "/" in target or "\\" in target)
-
-
-def _raw_plan(target: str, options, max_size: int | None) -> tuple[dict, str]:
-    """The raw plan (file plus options, or options alone) and its source name."""
-    from ledger.typedata.plan import merge_options, plan_from_options, read_plan_file
-
-    if _is_file(target):
-        raw = read_plan_file(target, max_size=max_size)
-        if not options.empty:
-            raw = merge_options(raw, options)
-        return raw, target
-    return plan_from_options(target, options), "command line"
-
-
-def _preparer(by: str | None, raw: dict) -> str:
-    plan_by = raw.get("prepared_by") if isinstance(raw.get("prepared_by"), str) else None
-    return by or plan_by or common.actor(None)
 
 
 def _check_outputs(pdf: Path | None, svg: Path | None) -> None:
@@ -166,19 +145,14 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
 
     `wbledger sheet PLAN` is the same command. Exit code 1 when out of limits.
     """
-    from ledger.store.db import session_scope
-    from ledger.store.sheets import prepare_sheet, save_prepared
+    from ledger.services import sheets
 
     _check_outputs(pdf, svg)
-    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
-    raw, source = _raw_plan(target, options, limit)
-    with session_scope(common.state(ctx).engine()) as session:
-        prepared = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw))
-        doc = prepared.document
-        if save:
-            doc = save_prepared(session, prepared).document
+    plan = sheets.read_plan(target, options, max_size=common.size_limit(max_size))
+    doc = sheets.prepare(common.state(ctx).engine(), plan, by=by, user=common.actor(None),
+                         save=save).document
     _outputs(doc, as_json, width, pdf, svg)
     if save and not as_json:
         typer.echo(f"Saved as sheet {doc['sheet']['id']}.", err=True)
@@ -200,22 +174,18 @@ def amend(ctx: typer.Context,
     The amended sheet is saved and points at the original; a change beyond the tolerance
     needs a new sheet (`wbledger sheet PLAN --save`).
     """
-    from ledger.store.db import session_scope
-    from ledger.store.sheets import amend_sheet
-    from ledger.typedata.plan import read_plan_file
+    from ledger.services import sheets
 
     _check_outputs(pdf, svg)
     limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, None, None, None, None, None)
-    raw = read_plan_file(plan_file, max_size=limit) if plan_file is not None else None
-    with session_scope(common.state(ctx).engine()) as session:
-        saved, check = amend_sheet(session, sheet_id, options=None if raw else options,
-                                   raw=raw, source=str(plan_file) if raw else "amendment",
-                                   preparer=_preparer(by, raw or {}))
-        doc = saved.document
+    plan = None if plan_file is None else sheets.read_amendment_plan(plan_file, max_size=limit)
+    amended = sheets.amend(common.state(ctx).engine(), sheet_id, options=options, plan=plan,
+                           by=by, user=common.actor(None))
+    doc = amended.document
     _outputs(doc, as_json, width, pdf, svg)
     if not as_json:
-        typer.echo(f"Saved as sheet {saved.id}, amending sheet {sheet_id}.", err=True)
+        typer.echo(f"Saved as sheet {amended.saved.id}, amending sheet {sheet_id}.", err=True)
     _exit_for(doc)
 
 
@@ -226,17 +196,13 @@ def show(ctx: typer.Context,
          as_json: bool = common.JSON_OPTION, pdf: Path = PDF, svg: Path = SVG,
          width: int = WIDTH) -> None:
     """Show a saved sheet as it was saved (its content hash is verified)."""
-    from ledger.store.db import session_scope
-    from ledger.store.sheets import get_sheet, verify_sheet
+    from ledger.services import sheets
 
     _check_outputs(pdf, svg)
-    with session_scope(common.state(ctx).engine()) as session:
-        saved = get_sheet(session, sheet_id)
-        ok = verify_sheet(session, sheet_id)
-    doc = saved.document
-    doc["sheet"]["verified"] = ok
+    shown = sheets.show(common.state(ctx).engine(), sheet_id)
+    doc = shown.document
     _outputs(doc, as_json, width, pdf, svg)
-    if not ok:
+    if not shown.verified:
         common.fail(f"sheet {sheet_id} does not match its content hash; it was changed "
                     "outside wbledger", 1)
 
@@ -249,11 +215,10 @@ def list_(ctx: typer.Context,
                                     **common.ID_RANGE),
           as_json: bool = common.JSON_OPTION) -> None:
     """List saved sheets, newest first."""
-    from ledger.store.db import session_scope
-    from ledger.store.sheets import list_sheets
+    from ledger.services import sheets
 
-    with session_scope(common.state(ctx).engine()) as session:
-        rows = [s.summary() for s in list_sheets(session, registration, limit=limit)]
+    saved = sheets.list_saved(common.state(ctx).engine(), registration, limit=limit)
+    rows = [s.summary() for s in saved]
 
     def render(rows):
         if not rows:
@@ -274,15 +239,14 @@ def check(ctx: typer.Context, target: str = PLAN_ARG,
           axle_rules: str = AXLE_RULES, by: str = common.BY_OPTION,
           as_json: bool = common.JSON_OPTION, max_size: str = MAX_SIZE) -> None:
     """Check a plan without the sheet: exit 0 in limits, 1 out of limits, 2 bad input."""
-    from ledger.store.db import session_scope
-    from ledger.store.sheets import prepare_sheet
+    from ledger.services import check as checking
+    from ledger.services.sheets import read_plan
 
-    limit = common.size_limit(max_size)
     options = _options(person, vacate, cargo, fuel, taxi, trip, burn, configuration,
                        category, masses, axle_rules)
-    raw, source = _raw_plan(target, options, limit)
-    with session_scope(common.state(ctx).engine()) as session:
-        doc = prepare_sheet(session, raw, source=source, preparer=_preparer(by, raw)).document
+    plan = read_plan(target, options, max_size=common.size_limit(max_size))
+    doc = checking.check(common.state(ctx).engine(), plan, by=by,
+                         user=common.actor(None)).document
 
     def render(d):
         from ledger.report.sheet_text import check_lines

@@ -10,10 +10,8 @@ The stored document has ``sheet.id`` ``null`` and ``sheet.saved`` ``false`` (the
 before the insert and is not part of the hashed content); :func:`get_sheet` fills in
 ``sheet.id``, ``sheet.amends`` and ``sheet.saved`` when it reads a row back.
 
-The library-level orchestration used by the command line also lives here:
-:func:`prepare_sheet` finds the vehicle, its type, its current empty weight and configuration,
-parses the plan against the type and builds the document; :func:`save_prepared` stores it;
-:func:`amend_sheet` applies a last-minute change within the type's tolerance.
+Preparing, saving and amending a sheet (the use cases that combine this with the type data and
+the builders) is :mod:`ledger.services.sheets`; this module only persists and reads.
 """
 
 from __future__ import annotations
@@ -21,6 +19,7 @@ from __future__ import annotations
 import datetime as dt
 import hashlib
 import json
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import Any, NamedTuple
 
@@ -28,7 +27,9 @@ from sqlalchemy import event, select
 from sqlalchemy.orm import Session
 
 from ledger.bounds import TEXT_MAX, check_text
-from ledger.errors import ChainError, ConflictError, NotFoundError
+from ledger.errors import ConflictError, NotFoundError
+from ledger.store.catalog import load_type
+from ledger.store.chain import canonical_json
 from ledger.store.models import (
     LedgerEntryRow,
     LoadingSheetRow,
@@ -41,24 +42,14 @@ from ledger.store.seal import GENESIS_HASH, sheet_seal
 
 __all__ = [
     "SavedSheet",
-    "canonical_json",
     "sheet_content_hash",
     "save_sheet",
     "get_sheet",
     "list_sheets",
     "verify_sheet",
     "amendments_of",
-    "PreparedSheet",
-    "prepare_sheet",
-    "save_prepared",
-    "amend_sheet",
+    "sheet_type",
 ]
-
-
-def canonical_json(data: Any) -> str:
-    """JSON with sorted keys, no spaces and no NaN: the form that is hashed and stored."""
-    return json.dumps(data, sort_keys=True, separators=(",", ":"), ensure_ascii=False,
-                      allow_nan=False)
 
 
 def _iso(value: dt.datetime) -> str:
@@ -130,7 +121,7 @@ def _refuse_delete(_mapper, _connection, target) -> None:  # pragma: no cover - 
 
 
 def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entry_id: int,
-               plan: dict, document: dict, preparer: str,
+               plan: Mapping[str, Any], document: Mapping[str, Any], preparer: str,
                created_at: dt.datetime | None = None,
                amends_id: int | None = None) -> SavedSheet:
     """Store a computed sheet; return it as read back (with its id).
@@ -141,9 +132,9 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
         An open session; the caller's transaction commits it.
     vehicle_id, type_revision_id, entry_id : int
         The vehicle, the type revision and the ledger entry (empty weight) the sheet used.
-    plan : dict
+    plan : mapping
         The plan in SI (``Plan.to_dict()``).
-    document : dict
+    document : mapping
         The sheet document (``ledger.loadsheet.build_sheet``); its ``verdict`` is stored too.
     preparer : str
         Who prepared it.
@@ -273,206 +264,7 @@ def verify_sheet(session: Session, sheet_id: int) -> bool:
     return sheet_problem(session, sheet_id) is None
 
 
-# --- preparing, saving and amending sheets (the library calls behind `wbledger sheet`) ---------
-
-@dataclass(frozen=True)
-class PreparedSheet:
-    """A computed sheet and everything needed to save it."""
-
-    document: dict = field(repr=False)
-    plan: Any = field(repr=False)  # ledger.typedata.plan.Plan
-    raw_plan: dict = field(repr=False)
-    registration: str = ""
-    vehicle_id: int = 0
-    type_revision_id: int = 0
-    entry_id: int = 0
-    preparer: str = ""
-    prepared_at: dt.datetime | None = None
-
-    @property
-    def verdict(self) -> str:
-        return self.document["verdict"]
-
-    def plan_record(self) -> dict:
-        """What a saved sheet keeps of the plan: the plan as given and as resolved in SI."""
-        return {"raw": _jsonable(self.raw_plan), "plan": self.plan.to_dict()}
-
-
-def _jsonable(value):
-    """The raw plan as JSON can hold it (TOML dates become ISO text)."""
-    if isinstance(value, dict):
-        return {str(k): _jsonable(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_jsonable(v) for v in value]
-    if isinstance(value, (dt.date, dt.time, dt.datetime)):
-        return value.isoformat()
-    return value
-
-
-def _context(session: Session, raw: dict, source: str, type_revision_id: int | None = None):
-    from ledger.store.catalog import get_vehicle, load_type
-    from ledger.store.configs import configuration_items
-    from ledger.store.entries import current_empty, vehicle_type_info
-    from ledger.typedata.plan import plan_vehicle
-
-    registration = plan_vehicle(raw, source)
-    vehicle = get_vehicle(session, registration)
-    if type_revision_id is None:
-        info = vehicle_type_info(session, vehicle)
-        rev_id, revision, vtype = info.revision_id, info.revision, info.vtype
-    else:
-        row = session.get(TypeRevisionRow, type_revision_id)
-        rev_id, revision, vtype = row.id, row.revision, load_type(session, row)
-    empty = current_empty(session, vehicle.registration)
-    cfg = None
-    name = raw.get("configuration")
-    if isinstance(name, str) and name.strip():
-        cfg = configuration_items(session, vehicle.registration, name.strip())
-    return vehicle, rev_id, revision, vtype, empty, cfg
-
-
-def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
-                  prepared_at: dt.datetime | None = None,
-                  with_fixes: bool = True) -> PreparedSheet:
-    """Check a raw plan against the vehicle's type and build its sheet (nothing is written).
-
-    The vehicle is the one the plan names; its type is the newest revision, its empty weight
-    the current ledger state (:func:`ledger.store.entries.current_empty`), its configuration
-    the one the plan names (:func:`ledger.store.configs.configuration_items`).
-
-    Raises
-    ------
-    PlanError
-        A bad plan (exit code 2).
-    NotFoundError, ConflictError
-        Unknown vehicle or configuration; a vehicle with no empty weight recorded yet.
-    """
-    from ledger.loadsheet import build_sheet
-    from ledger.typedata.plan import parse_plan
-
-    prepared_at = prepared_at or dt.datetime.now(dt.UTC)
-    preparer = recorder(session.connection(), preparer)
-    vehicle, rev_id, revision, vtype, empty, cfg = _context(session, raw, source)
-    plan = parse_plan(raw, vtype, source=source,
-                      disabled_stations=None if cfg is None else cfg.disables_stations)
-    doc = build_sheet(vtype, empty, plan,
-                      configuration_items=None if cfg is None else cfg.items,
-                      prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,
-                      registration=vehicle.registration, with_fixes=with_fixes)
-    return PreparedSheet(doc, plan, dict(raw), vehicle.registration, vehicle.id, rev_id,
-                         empty.entry_id, preparer, prepared_at)
-
-
-def save_prepared(session: Session, prepared: PreparedSheet, *,
-                  amends_id: int | None = None) -> SavedSheet:
-    """Save a prepared sheet (immutable from then on)."""
-    return save_sheet(session, vehicle_id=prepared.vehicle_id,
-                      type_revision_id=prepared.type_revision_id, entry_id=prepared.entry_id,
-                      plan=prepared.plan_record(), document=prepared.document,
-                      preparer=prepared.preparer, created_at=prepared.prepared_at,
-                      amends_id=amends_id)
-
-
-def _root(session: Session, sheet: SavedSheet) -> SavedSheet:
-    seen = {sheet.id}
-    while sheet.amends_id is not None:
-        sheet = get_sheet(session, sheet.amends_id)
-        if sheet.id in seen:  # pragma: no cover - ids only ever point back
-            break
-        seen.add(sheet.id)
-    return sheet
-
-
-def _tolerance_text(check, du) -> str:
-    from ledger.loadsheet.text import mass_text
-
-    persons = check.tolerance_persons
-    return (f"{mass_text(check.tolerance_mass_kg, du)} and {persons} "
-            f"{'person' if persons == 1 else 'persons'}")
-
-
-def amend_sheet(session: Session, sheet_id: int, *, options=None, raw: dict | None = None,
-                source: str = "command line", preparer: str,
-                prepared_at: dt.datetime | None = None) -> tuple[SavedSheet, Any]:
-    """Make and save an amended sheet for a last-minute change to saved sheet ``sheet_id``.
-
-    Give the change as quick ``options`` (:class:`ledger.typedata.plan.QuickOptions`, applied
-    over the saved plan) or as a whole new ``raw`` plan. The change is measured against the
-    first sheet of the amendment chain (:func:`ledger.loadsheet.amend.compare_plans`).
-
-    Returns
-    -------
-    (SavedSheet, AmendmentCheck)
-
-    Raises
-    ------
-    ConflictError
-        The sheet was already amended (amend the newest one); the empty weight or type data
-        changed since; nothing changed; or the change is beyond the type's last-minute
-        tolerance: a new sheet is needed.
-    """
-    from ledger.loadsheet import build_sheet
-    from ledger.loadsheet.amend import compare_plans
-    from ledger.store.evidence import sheet_problem
-    from ledger.typedata.plan import Plan, merge_options, parse_plan
-
-    preparer = recorder(session.connection(), preparer)
-    original = get_sheet(session, sheet_id)
-    problem = sheet_problem(session, original.id)
-    if problem:
-        raise ChainError(f"sheet {original.id} does not verify, so it is not amended: "
-                         f"{problem}. See `wbledger verify {original.registration}`")
-    later = amendments_of(session, original.id)
-    if later:
-        raise ConflictError(f"loading sheet {original.id} was already amended by sheet "
-                            f"{later[-1]}; amend the newest one "
-                            f"(`wbledger sheet amend {later[-1]} …`)")
-    base_raw = original.plan.get("raw") or {}
-    if raw is None:
-        if options is None or options.empty:
-            raise ConflictError("an amendment needs a change: give --person, --vacate, "
-                                "--cargo, --fuel, --taxi or --trip, or a new plan file")
-        raw = merge_options(base_raw, options)
-        source = "amendment"
-    if raw.get("vehicle") != base_raw.get("vehicle"):
-        raise ConflictError(f"sheet {original.id} is for {original.registration}; an amendment "
-                            "cannot change the vehicle: prepare a new sheet")
-    vehicle, rev_id, revision, vtype, empty, cfg = _context(
-        session, raw, source, original.type_revision_id)
-    newest = _context(session, raw, source)
-    if newest[1] != original.type_revision_id or empty.entry_id != original.entry_id:
-        raise ConflictError(
-            f"the type data or the empty weight of {original.registration} changed since sheet "
-            f"{original.id} (then: type revision {original.type_revision}, ledger entry "
-            f"#{original.entry_seq}; now: revision {newest[2]}, entry #{empty.seq}); a "
-            f"last-minute change cannot carry that: prepare a new sheet with "
-            f"`wbledger sheet PLAN --save`")
-    plan = parse_plan(raw, vtype, source=source,
-                      disabled_stations=None if cfg is None else cfg.disables_stations)
-    root = _root(session, original)
-    check = compare_plans(Plan.from_dict(root.plan["plan"]), plan, vtype.tolerances)
-    if not check.changes and not check.structural:
-        raise ConflictError(f"the amendment changes nothing on sheet {original.id}")
-    if not check.within:
-        from ledger.loadsheet.text import mass_text
-
-        du = vtype.units
-        if check.structural:
-            why = "it changes " + "; ".join(check.structural)
-        else:
-            why = (f"it changes {mass_text(check.mass_change_kg, du)} and "
-                   f"{check.person_change} "
-                   f"{'person' if check.person_change == 1 else 'persons'}")
-        raise ConflictError(
-            f"the change to sheet {root.id} is beyond the last-minute tolerance of type "
-            f"{vtype.name} ({_tolerance_text(check, du)}): {why}; prepare a new sheet with "
-            f"`wbledger sheet PLAN --save`")
-    prepared_at = prepared_at or dt.datetime.now(dt.UTC)
-    doc = build_sheet(vtype, empty, plan,
-                      configuration_items=None if cfg is None else cfg.items,
-                      prepared_by=preparer, prepared_at=prepared_at, type_revision=revision,
-                      registration=vehicle.registration)
-    doc["amendment"] = {"of": original.id, "first_sheet": root.id, **check.to_dict()}
-    prepared = PreparedSheet(doc, plan, dict(raw), vehicle.registration, vehicle.id, rev_id,
-                             empty.entry_id, preparer, prepared_at)
-    return save_prepared(session, prepared, amends_id=original.id), check
+def sheet_type(session: Session, sheet: SavedSheet):
+    """The :class:`ledger.typedata.VehicleType` of the type revision a saved sheet used, once
+    the type's chain of revisions verifies (:func:`ledger.store.catalog.load_type`)."""
+    return load_type(session, session.get(TypeRevisionRow, sheet.type_revision_id))

@@ -23,13 +23,13 @@ import pytest
 from sqlalchemy import text
 from sqlalchemy.orm import Session
 
+from ledger.services.sheets import prepare_sheet
 from ledger.store import checkpoint, guards
 from ledger.store.chain import content_hash
 from ledger.store.configs import define_configuration
 from ledger.store.db import session_scope
 from ledger.store.evidence import verify_fleet
 from ledger.store.seal import type_revision_seal
-from ledger.store.sheets import prepare_sheet
 from ledger.typedata import parse_type_text
 from ledger.typedata.plan import read_plan_text
 from tests.store.test_tamper import HEAVY, fleet, type_text  # noqa: F401 - fleet is a fixture

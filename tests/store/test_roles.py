@@ -32,6 +32,7 @@ from typer.testing import CliRunner
 
 from ledger.cli import app
 from ledger.errors import AccessRefusedError
+from ledger.services.sheets import amend_sheet, prepare_sheet, save_prepared
 from ledger.store import guards
 from ledger.store.catalog import add_vehicle, import_type
 from ledger.store.configs import define_configuration
@@ -39,7 +40,7 @@ from ledger.store.db import make_engine, session_scope, upgrade
 from ledger.store.entries import entries_of, install_item
 from ledger.store.evidence import verify_fleet
 from ledger.store.roles import create_roles, role_names
-from ledger.store.sheets import amend_sheet, list_sheets, prepare_sheet, save_prepared
+from ledger.store.sheets import list_sheets
 from ledger.typedata import parse_type_text
 from ledger.typedata.plan import QuickOptions, read_plan_text
 from tests.store.ledger_support import TYPE_A, setup_fleet, weigh_a

@@ -26,6 +26,7 @@ import pytest
 from sqlalchemy import text
 from sqlalchemy.orm import Session
 
+from ledger.services.sheets import amend_sheet, prepare_sheet, save_prepared
 from ledger.store import checkpoint, guards
 from ledger.store.catalog import add_vehicle
 from ledger.store.chain import content_hash
@@ -33,7 +34,7 @@ from ledger.store.configs import define_configuration
 from ledger.store.db import session_scope
 from ledger.store.entries import install_item, record_weighing
 from ledger.store.evidence import verify_fleet
-from ledger.store.sheets import amend_sheet, prepare_sheet, save_prepared, verify_sheet
+from ledger.store.sheets import verify_sheet
 from ledger.testing import import_types
 from ledger.typedata.plan import QuickOptions, read_plan_text
 from tests.store.ledger_support import ts_type

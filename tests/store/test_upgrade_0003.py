@@ -90,7 +90,7 @@ def test_upgrade_seals_what_is_there_and_everything_verifies(db_url, tmp_path):
 
 
 def test_a_sheet_saved_after_the_upgrade_chains_onto_the_old_ones(db_url, tmp_path):
-    from ledger.store.sheets import prepare_sheet, save_prepared
+    from ledger.services.sheets import prepare_sheet, save_prepared
     from ledger.typedata.plan import read_plan_file
     from tests.conftest import DEMO_FLEET
 
