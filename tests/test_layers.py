@@ -41,19 +41,6 @@ ALLOWED: dict[str, set[str]] = {
 
 #: Imports that break the layers today and are being moved (issue 12). Empty when it is done.
 KNOWN: set[tuple[str, str]] = {
-    ("ledger.cli.ground", "ledger.analysis"),
-    ("ledger.cli.ground", "ledger.analysis.ground"),
-    ("ledger.cli.ground", "ledger.rules"),
-    ("ledger.cli.ground", "ledger.store.catalog"),
-    ("ledger.cli.ground", "ledger.store.db"),
-    ("ledger.cli.ground", "ledger.store.entries"),
-    ("ledger.cli.inertia", "ledger.analysis.inertia"),
-    ("ledger.cli.inertia", "ledger.loadsheet.build"),
-    ("ledger.cli.inertia", "ledger.store.catalog"),
-    ("ledger.cli.inertia", "ledger.store.configs"),
-    ("ledger.cli.inertia", "ledger.store.db"),
-    ("ledger.cli.inertia", "ledger.store.entries"),
-    ("ledger.cli.inertia", "ledger.typedata.plan"),
     ("ledger.cli.maintenance", "ledger.store.configs"),
     ("ledger.cli.maintenance", "ledger.store.db"),
     ("ledger.cli.maintenance", "ledger.store.entries"),

@@ -2,8 +2,9 @@
 
 Pure: numbers in SI (kg, m, degrees for angles) and, optionally, a parsed
 :class:`ledger.typedata.VehicleType` in; JSON-able dicts out (SI, the unit in every key). The
-command line parses what the user typed, fetches the type from the store and renders the
-documents with :mod:`ledger.report.ground`.
+service (:mod:`ledger.services.ground`, :mod:`ledger.services.cg_height`) parses what the user
+typed and fetches the type from the store; :mod:`ledger.report.ground` renders the documents,
+whose types are in :mod:`ledger.analysis.ground_types`.
 
 Documents
 ---------
@@ -24,10 +25,21 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
+from typing import Any, cast
 
 from ledger.analysis import MISSING
-from ledger.caution import CAUTION_SHORT
+from ledger.analysis.ground_types import (
+    CgHeightDocument,
+    CgHeightInputs,
+    CgHeightReading,
+    CornersDocument,
+    GroundVehicle,
+    RuleSetDocument,
+)
+from ledger.caution import CAUTION_SHORT, GROUND_CAUTION
+from ledger.core.ground import cg_height_axle_lift, corner_weights
 from ledger.errors import InputError
+from ledger.rules import bridge_table
 
 __all__ = [
     "CORNERS_SCHEMA",
@@ -52,7 +64,7 @@ class Geometry(dict):
     ``wheelbase_m``, ``track_front_m``, ``track_rear_m``, ``front_axle_x_m``, ``source``."""
 
 
-def _vehicle(vtype, registration: str | None) -> dict | None:
+def _vehicle(vtype: Any, registration: str | None) -> GroundVehicle | None:
     if vtype is None and registration is None:
         return None
     return {"registration": registration,
@@ -61,8 +73,9 @@ def _vehicle(vtype, registration: str | None) -> dict | None:
             "kind": getattr(vtype, "kind", None)}
 
 
-def type_geometry(vtype, *, wheelbase_m: float | None = None, track_front_m: float | None = None,
-                  track_rear_m: float | None = None) -> Geometry:
+def type_geometry(vtype: Any, *, wheelbase_m: float | None = None,
+                  track_front_m: float | None = None, track_rear_m: float | None = None
+                  ) -> Geometry:
     """Wheelbase and tracks of a two-axle ground vehicle from its type, or as given.
 
     Given values win over the type's (and the result says which came from where). A type with
@@ -148,8 +161,8 @@ def angles_from_lift(lift_m: Sequence[float], wheelbase_m: float) -> list[float]
 
 
 def corner_weights_document(lf_kg: float, rf_kg: float, lr_kg: float, rr_kg: float,
-                            geometry: Geometry, *, vtype=None,
-                            registration: str | None = None) -> dict:
+                            geometry: Geometry, *, vtype: Any = None,
+                            registration: str | None = None) -> CornersDocument:
     """Corner weights from four wheel-scale readings as a ``wbledger.corners/1`` document.
 
     Parameters
@@ -175,8 +188,6 @@ def corner_weights_document(lf_kg: float, rf_kg: float, lr_kg: float, rr_kg: flo
     >>> d["total_kg"], round(d["cg_m"]["x"], 6), d["diagonals_percent"]["LF+RR"]
     (1500.0, 1.2, 50.666666666666664)
     """
-    from ledger.core.ground import corner_weights
-
     c = corner_weights(lf_kg, rf_kg, lr_kg, rr_kg, geometry["wheelbase_m"],
                        geometry["track_front_m"], geometry["track_rear_m"],
                        geometry["front_axle_x_m"])
@@ -209,8 +220,9 @@ def cg_height_document(*, total_kg: float, wheelbase_m: float, wheel_radius_m: f
                        level_kg: float, tilted_kg: Sequence[float], angles_deg: Sequence[float],
                        raised: str = "rear", total_tilted_kg: Sequence[float] | None = None,
                        datum_height_m: float | None = None, empty_mass_kg: float | None = None,
-                       mass_rtol: float = 0.02, vtype=None, registration: str | None = None,
-                       angle_source: str = "given") -> dict:
+                       mass_rtol: float = 0.02, vtype: Any = None,
+                       registration: str | None = None,
+                       angle_source: str = "given") -> CgHeightDocument:
     """CG height from an axle-lift weighing as a ``wbledger.cg-height/1`` document.
 
     One axle is raised by θ; the other stays on the scales. With the rear raised the front
@@ -258,57 +270,28 @@ def cg_height_document(*, total_kg: float, wheelbase_m: float, wheel_radius_m: f
     >>> round(d["height_m"], 12), round(d["z_m"], 12), d["residual_rms_kg"] < 1e-9
     (0.55, 0.25, True)
     """
-    from ledger.core.ground import cg_height_axle_lift
-
     if raised not in ("rear", "front"):
         raise InputError("--raised", raised, "'rear' or 'front'")
     grounded = "front" if raised == "rear" else "rear"
     tilted = [float(v) for v in tilted_kg]
     angles = [float(a) for a in angles_deg]
-    if not tilted:
-        raise InputError(f"--{grounded}-tilted", MISSING,
-                         "at least one load with the axle raised, with its --angle or --lift")
-    if len(angles) != len(tilted):
-        raise InputError("--angle", angles,
-                         f"one angle (or lift) per --{grounded}-tilted load: {len(tilted)} "
-                         f"load(s), {len(angles)} angle(s)")
-    if total_tilted_kg is not None and len(total_tilted_kg) != len(tilted):
-        raise InputError("--total-tilted", list(total_tilted_kg),
-                         f"one total per --{grounded}-tilted load ({len(tilted)})")
-    if empty_mass_kg is not None and empty_mass_kg > 0:
-        dev = (total_kg - empty_mass_kg) / empty_mass_kg
-        if abs(dev) > mass_rtol:
-            raise InputError(
-                "--total", round(total_kg, 3),
-                f"within {mass_rtol * 100:g} % of the recorded empty mass "
-                f"{empty_mass_kg:.1f} kg (it is {dev * 100:+.1f} %)",
-                hint="Weigh the vehicle in its empty condition, or record a new weighing first")
-    names = {"total_mass": "--total", "wheelbase": "--wheelbase",
-             "wheel_radius": "--wheel-radius", "front_level": f"--{grounded}-level",
-             "front_tilted": f"--{grounded}-tilted", "theta_rad": "--angle",
-             "total_tilted": "--total-tilted"}
+    _check_readings(grounded, tilted, angles, total_tilted_kg)
+    _check_empty_mass(total_kg, empty_mass_kg, mass_rtol)
     try:
         res = cg_height_axle_lift(total_kg, wheelbase_m, level_kg, tilted,
                                   [math.radians(a) for a in angles], wheel_radius_m,
                                   total_tilted=total_tilted_kg, mass_rtol=0.005)
     except InputError as exc:
-        base, _, rest = exc.field.partition("[")
-        if base in names:
-            exc.field = names[base] + (f"[{int(rest.rstrip(']')) + 1}]" if rest else "")
-            if base == "theta_rad":
-                exc.value = _degrees_of(exc.value)
-                exc.allowed = _degrees_text(exc.allowed)
-            exc.args = (exc._build(),)
+        _as_options(exc, grounded)
         raise
     heights = [float(v) for v in res.heights]
     z = None if datum_height_m is None else res.height - float(datum_height_m)
-    readings = []
+    readings: list[CgHeightReading] = []
     for i, (a, t) in enumerate(zip(angles, tilted)):
-        readings.append({"angle_deg": a, f"{grounded}_tilted_kg": t,
-                         "load_change_kg": t - level_kg,
-                         "total_tilted_kg": (None if total_tilted_kg is None
-                                             else float(total_tilted_kg[i])),
-                         "height_m": heights[i]})
+        readings.append(cast(CgHeightReading, {
+            "angle_deg": a, f"{grounded}_tilted_kg": t, "load_change_kg": t - level_kg,
+            "total_tilted_kg": None if total_tilted_kg is None else float(total_tilted_kg[i]),
+            "height_m": heights[i]}))
     n = len(readings)
     return {
         "schema": CG_HEIGHT_SCHEMA,
@@ -321,10 +304,10 @@ def cg_height_document(*, total_kg: float, wheelbase_m: float, wheel_radius_m: f
         "raised_axle": raised,
         "grounded_axle": grounded,
         "angle_source": angle_source,
-        "inputs": {"total_kg": float(total_kg), "wheelbase_m": float(wheelbase_m),
-                   "wheel_radius_m": float(wheel_radius_m),
-                   f"{grounded}_level_kg": float(level_kg),
-                   "datum_height_m": None if datum_height_m is None else float(datum_height_m)},
+        "inputs": cast(CgHeightInputs, {
+            "total_kg": float(total_kg), "wheelbase_m": float(wheelbase_m),
+            "wheel_radius_m": float(wheel_radius_m), f"{grounded}_level_kg": float(level_kg),
+            "datum_height_m": None if datum_height_m is None else float(datum_height_m)}),
         "readings": readings,
         "height_m": res.height,
         "residual_rms_kg": res.residual_rms,
@@ -337,7 +320,49 @@ def cg_height_document(*, total_kg: float, wheelbase_m: float, wheel_radius_m: f
     }
 
 
-def _degrees_of(value):
+def _check_readings(grounded: str, tilted: list[float], angles: list[float],
+                    total_tilted_kg: Sequence[float] | None) -> None:
+    """One angle (and one total, if any) per tilted load, and at least one load."""
+    if not tilted:
+        raise InputError(f"--{grounded}-tilted", MISSING,
+                         "at least one load with the axle raised, with its --angle or --lift")
+    if len(angles) != len(tilted):
+        raise InputError("--angle", angles,
+                         f"one angle (or lift) per --{grounded}-tilted load: {len(tilted)} "
+                         f"load(s), {len(angles)} angle(s)")
+    if total_tilted_kg is not None and len(total_tilted_kg) != len(tilted):
+        raise InputError("--total-tilted", list(total_tilted_kg),
+                         f"one total per --{grounded}-tilted load ({len(tilted)})")
+
+
+def _check_empty_mass(total_kg: float, empty_mass_kg: float | None, mass_rtol: float) -> None:
+    """The weighed total is the recorded empty mass, within ``mass_rtol``."""
+    if empty_mass_kg is not None and empty_mass_kg > 0:
+        dev = (total_kg - empty_mass_kg) / empty_mass_kg
+        if abs(dev) > mass_rtol:
+            raise InputError(
+                "--total", round(total_kg, 3),
+                f"within {mass_rtol * 100:g} % of the recorded empty mass "
+                f"{empty_mass_kg:.1f} kg (it is {dev * 100:+.1f} %)",
+                hint="Weigh the vehicle in its empty condition, or record a new weighing first")
+
+
+def _as_options(exc: InputError, grounded: str) -> None:
+    """Name the command's options in an error of the core fit (and its angles in degrees)."""
+    names = {"total_mass": "--total", "wheelbase": "--wheelbase",
+             "wheel_radius": "--wheel-radius", "front_level": f"--{grounded}-level",
+             "front_tilted": f"--{grounded}-tilted", "theta_rad": "--angle",
+             "total_tilted": "--total-tilted"}
+    base, _, rest = exc.field.partition("[")
+    if base in names:
+        exc.field = names[base] + (f"[{int(rest.rstrip(']')) + 1}]" if rest else "")
+        if base == "theta_rad":
+            exc.value = _degrees_of(exc.value)
+            exc.allowed = _degrees_text(exc.allowed)
+        exc.args = (exc._build(),)
+
+
+def _degrees_of(value: Any) -> Any:
     try:
         if isinstance(value, (list, tuple)):
             return [round(math.degrees(v), 6) for v in value]
@@ -352,8 +377,8 @@ def _degrees_text(text: str) -> str:
     return text[:i] if i > 0 and text.endswith("rad)") else text
 
 
-def rule_set_document(rules, *, lengths_ft: Sequence[float] | None = None,
-                      axle_counts: Sequence[int] = (2, 3, 4, 5, 6, 7)) -> dict:
+def rule_set_document(rules: Any, *, lengths_ft: Sequence[float] | None = None,
+                      axle_counts: Sequence[int] = (2, 3, 4, 5, 6, 7)) -> RuleSetDocument:
     """A rule set (:class:`ledger.rules.RuleSetFile`) as a ``wbledger.axle-rules/1`` document,
     with the bridge-formula table for ``lengths_ft`` when given and the rule set uses it.
 
@@ -364,11 +389,8 @@ def rule_set_document(rules, *, lengths_ft: Sequence[float] | None = None,
     >>> d["bridge_table"]["rows"][0]["max_lb"][:2], d["caution"][:25]
     ([40000.0, 43500.0], 'Axle-group rules are show')
     """
-    from ledger.caution import GROUND_CAUTION
-    from ledger.rules import bridge_table
-
-    doc = {"schema": "wbledger.axle-rules/1", "caution": GROUND_CAUTION, **rules.to_dict(),
-           "bridge_table": None}
+    doc = cast(RuleSetDocument, {"schema": "wbledger.axle-rules/1", "caution": GROUND_CAUTION,
+                                 **rules.to_dict(), "bridge_table": None})
     if lengths_ft is not None and rules.bridge_formula:
         doc["bridge_table"] = bridge_table(rules, list(lengths_ft), tuple(axle_counts))
     return doc
