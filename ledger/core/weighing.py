@@ -21,6 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ledger.core._common import finite_float
 from ledger.errors import InputError, MassPropertiesError
 
 __all__ = [
@@ -167,13 +168,7 @@ def _vector(value, n: int | None, field: str, names: Sequence[str] | None = None
 
 
 def _finite(value, field: str, allowed: str) -> float:
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        raise MassPropertiesError(field, value, allowed) from None
-    if not math.isfinite(v):
-        raise MassPropertiesError(field, v, allowed)
-    return v
+    return finite_float(value, field, allowed, MassPropertiesError)
 
 
 def _needed_arm(value, field: str, because: str) -> float:
