@@ -175,6 +175,26 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
         raise MassPropertiesError("masses", _Shown("[]"),
                                   "at least one item; the item set is empty")
     _check_masses(m, infinite=False)
+    arms = _checked_arms(m, x, y, z)
+    total, moments_given = _totals(m, [a for a in arms if a is not None])
+    _check_totals(m, total, moments_given, arms)
+    moments: list = []
+    cgs: list = []
+    it = iter(moments_given)
+    for arm in arms:
+        if arm is None:
+            moments.append(None)
+            cgs.append(None)
+        else:
+            moment = next(it)
+            moments.append(plain(moment))
+            cgs.append(plain(moment / total))
+    return MassProperties(plain(total), Vector3(*moments), Vector3(*cgs))
+
+
+def _checked_arms(m: np.ndarray, x, y, z) -> list[np.ndarray | None]:
+    """The arms per axis as float arrays (None where not given), each checked finite and
+    broadcastable against the masses, one per item."""
     arms: list[np.ndarray | None] = []
     for field, value in (("x", x), ("y", y), ("z", z)):
         if value is None:
@@ -194,8 +214,11 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
                                       f"one arm per item ({m.shape[-1]} items)")
         _check_finite(a, field, "a finite arm")
         arms.append(a)
+    return arms
 
-    shared = [a for a in arms if a is not None]
+
+def _totals(m: np.ndarray, shared: list[np.ndarray]) -> tuple[np.ndarray, list[np.ndarray]]:
+    """Total mass and one moment per given axis, per loading case."""
     # Overflow and inf·0 show up as non-finite sums, reported below with the field named.
     with np.errstate(over="ignore", invalid="ignore"):
         if all(a.ndim == 1 for a in shared):
@@ -210,7 +233,12 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
         else:
             total = m @ np.ones(m.shape[-1])
             moments_given = [np.einsum("...i,...i->...", m, a) for a in shared]
+    return total, moments_given
 
+
+def _check_totals(m: np.ndarray, total: np.ndarray, moments_given: list[np.ndarray],
+                  arms: list[np.ndarray | None]) -> None:
+    """Raise for a total mass that is not above 0 and finite, or a non-finite moment."""
     # Fast screens first (one reduction each); the precise search runs only on failure.
     if not (np.min(total) > 0.0 and np.isfinite(np.max(total))):
         if not np.all(np.isfinite(total)):
@@ -228,19 +256,6 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
             name = ("x", "y", "z")[[i for i, a in enumerate(arms) if a is not None][k]]
             raise MassPropertiesError(f"moment about {name}", float(mo[~np.isfinite(mo)].flat[0]),
                                       "a finite moment; masses or arms are too large")
-
-    moments: list = []
-    cgs: list = []
-    it = iter(moments_given)
-    for arm in arms:
-        if arm is None:
-            moments.append(None)
-            cgs.append(None)
-        else:
-            moment = next(it)
-            moments.append(plain(moment))
-            cgs.append(plain(moment / total))
-    return MassProperties(plain(total), Vector3(*moments), Vector3(*cgs))
 
 
 def moment_index(moment, reduction):
