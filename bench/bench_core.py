@@ -1,6 +1,7 @@
 """Benchmarks of the calculation core, each against a baseline measured in the same run.
 
-Run from the repository root with ``python -m bench.bench_core`` (or ``python bench/bench_core.py``).
+Run from the repository root with ``python -m bench.bench_core`` (or
+``python bench/bench_core.py``).
 Prints one line per benchmark::
 
     bench NAME: ratio R (target T)
@@ -31,7 +32,7 @@ import numpy as np
 import shapely
 
 from ledger.core._jit import kernels
-from ledger.core.envelope import _prepare, _scan, covers, default_tolerance
+from ledger.core.envelope import covers, default_tolerance, prepare_envelope, scan_points
 from ledger.core.massprops import mass_properties
 from ledger.core.sweep import sweep_cases
 
@@ -99,11 +100,11 @@ def bench_envelope_covers(n: int = 1_000_000, repeat: int = 9) -> tuple[float, f
     assert np.array_equal(ours, ref), f"{int((ours != ref).sum())} verdicts differ from shapely"
     assert ours[take].all(), "points on edges and vertices must be in limits"
 
-    prep = _prepare(ENVELOPE, None)
-    assert np.array_equal(_scan(prep, x, y, want_margin=False)[0], ref)
+    prep = prepare_envelope(ENVELOPE)
+    assert np.array_equal(scan_points(prep, x, y)[0], ref)
     t_ours, t_ref = _best_pair(lambda: covers(ENVELOPE, x, y),
                                lambda: shapely.intersects_xy(poly, x, y), repeat)
-    t_scan, t_ref2 = _best_pair(lambda: _scan(prep, x, y, want_margin=False),
+    t_scan, t_ref2 = _best_pair(lambda: scan_points(prep, x, y),
                                 lambda: shapely.intersects_xy(poly, x, y), repeat)
     return t_ref / t_ours, t_ref2 / t_scan
 
@@ -184,7 +185,8 @@ def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int 
     # then the exact scan behind assess (checked against shapely in the tests; assess itself
     # takes the prepared table for this many points).
     mp = mass_properties(masses, arms)
-    ref_inside, ref_margin = _scan(_prepare(ENVELOPE, None), mp.cg.x, mp.mass, want_margin=True)
+    ref_inside, ref_margin = scan_points(prepare_envelope(ENVELOPE), mp.cg.x, mp.mass,
+                                         want_margin=True)
     assert np.allclose(mass, mp.mass, rtol=1e-15) and np.allclose(cg, mp.cg.x, rtol=1e-15)
     assert np.array_equal(inside, ref_inside), "verdicts differ from the exact scan"
     fin = np.isfinite(ref_margin)
@@ -215,7 +217,7 @@ def bench_loading_sweep(n: int = 1_000_000, n_python: int = 20_000, repeat: int 
 
     ratios = []
     for threads in thread_settings:
-        t_vec, t_py = _best_pair(lambda: vectorised(threads), python_loop, repeat, runs_a=3)
+        t_vec, t_py = _best_pair(lambda t=threads: vectorised(t), python_loop, repeat, runs_a=3)
         ratios.append(t_py / n_python * n / t_vec)
     return ratios
 

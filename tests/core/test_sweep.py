@@ -29,13 +29,15 @@ NOTCHED_MM = np.array([
 ])
 # A notch from the top: between masses 1 and 3 a horizontal line crosses the boundary four
 # times (two intervals in limits).
-VNOTCH = np.array([(0.0, 0.0), (4.0, 0.0), (4.0, 3.0), (3.0, 3.0), (2.0, 1.0), (1.0, 3.0), (0.0, 3.0)])
+VNOTCH = np.array([(0.0, 0.0), (4.0, 0.0), (4.0, 3.0), (3.0, 3.0), (2.0, 1.0), (1.0, 3.0),
+                   (0.0, 3.0)])
 # Steps: horizontal edges at intermediate masses (2 and 4), not only at the top and bottom.
 STEPS = np.array([(0.0, 0.0), (6.0, 0.0), (6.0, 2.0), (5.0, 2.0), (5.0, 4.0), (3.0, 4.0),
                   (3.0, 6.0), (1.0, 6.0), (1.0, 4.0), (0.0, 4.0)])
 # A comb: three intervals at mid mass, with its teeth's tips on one level.
 COMB = np.array([(0.0, 0.0), (7.0, 0.0), (7.0, 4.0), (6.0, 4.0), (5.5, 1.0), (5.0, 4.0),
-                 (4.0, 4.0), (3.5, 1.0), (3.0, 4.0), (2.0, 4.0), (1.5, 1.0), (1.0, 4.0), (0.0, 4.0)])
+                 (4.0, 4.0), (3.5, 1.0), (3.0, 4.0), (2.0, 4.0), (1.5, 1.0), (1.0, 4.0),
+                 (0.0, 4.0)])
 SHAPES = {"notched_mm": NOTCHED_MM, "vnotch": VNOTCH, "steps": STEPS, "comb": COMB}
 
 
@@ -83,9 +85,9 @@ def _sample(P: np.ndarray, rng, n: int = 20_000):
 
 def _exact(P, x, y, tol=None):
     """The unprepared scan's verdicts and margins, whatever the number of points (from
-    ``envelope._TABLE_MIN`` points on, ``assess`` itself goes through the prepared table)."""
-    return envelope._scan(envelope._prepare(P, tol), np.asarray(x, dtype=float),
-                          np.asarray(y, dtype=float), want_margin=True)
+    65,536 points on, ``assess`` itself goes through the prepared table)."""
+    return envelope.scan_points(envelope.prepare_envelope(P, tol), np.asarray(x, dtype=float),
+                                np.asarray(y, dtype=float), want_margin=True)
 
 
 def _same_margins(a, b):
@@ -115,12 +117,12 @@ def test_prepared_verdicts_match_shapely_and_margins_match_assess(name):
 @pytest.mark.filterwarnings("ignore::RuntimeWarning")
 @pytest.mark.parametrize("name", sorted(SHAPES))
 def test_covers_and_assess_of_many_points_match_the_scan_and_shapely(name):
-    # From envelope._TABLE_MIN points on, covers and assess use the prepared table (with the
+    # From envelope.TABLE_MIN_POINTS points on, covers and assess use the prepared table (with the
     # compiled kernel, on the cores this process may use): the same verdicts and margins as
     # the scan, boundary and non-finite points included. On the numpy kernels they keep to
     # the scan, and this test checks the scan against shapely.
     P = SHAPES[name]
-    x, y, nb = _sample(P, np.random.default_rng(23), n=envelope._TABLE_MIN)
+    x, y, nb = _sample(P, np.random.default_rng(23), n=envelope.TABLE_MIN_POINTS)
     odd_x = [np.nan, 1.0, np.inf, -np.inf, 1.0, 1.0, 1e300]
     odd_y = [1.0, np.nan, 1.0, 1.0, np.inf, -np.inf, 1.0]
     x, y = np.concatenate([x, odd_x]), np.concatenate([y, odd_y])
@@ -136,7 +138,7 @@ def test_covers_and_assess_of_many_points_match_the_scan_and_shapely(name):
     # shapely.intersects_xy is inclusive (boundary points intersect); it covers no
     # non-finite point either.
     np.testing.assert_array_equal(inside, shapely.intersects_xy(shapely.Polygon(P), x, y))
-    n0 = envelope._TABLE_MIN
+    n0 = envelope.TABLE_MIN_POINTS
     assert inside[n0:n0 + nb].all() and not inside[-7:].any()
     # The other way in: one (n, 2) array of points.
     np.testing.assert_array_equal(covers(P, np.column_stack([x, y])), exact_inside)
@@ -297,7 +299,8 @@ def test_sweep_shapes():
     assert none.mass.shape == (0,)
 
 
-@pytest.mark.parametrize("bad, where", [(-1.0, (40_000, 2)), (np.nan, (3, 1)), (np.inf, (9_000, 4))])
+@pytest.mark.parametrize("bad, where",
+                         [(-1.0, (40_000, 2)), (np.nan, (3, 1)), (np.inf, (9_000, 4))])
 def test_sweep_bad_mass_same_error_as_mass_properties(bad, where):
     m = _cases(np.random.default_rng(1), 50_000)
     m[where] = bad
