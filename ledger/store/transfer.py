@@ -60,8 +60,11 @@ from ledger.core.ledger_rule import (
 )
 from ledger.errors import InputError
 from ledger.store.chain import GENESIS_HASH, canonical_json, content_hash, utc_text
-from ledger.store.entries import _head, implausible_empty_mass, parse_date, vehicle_type_info
+from ledger.store.heads import newest_entry
 from ledger.store.models import ENTRY_KINDS, LedgerEntryRow
+from ledger.store.sqlite_path import sqlite_insert
+from ledger.store.typeinfo import vehicle_type_info
+from ledger.typedata.readings import parse_date
 
 __all__ = [
     "COLUMNS",
@@ -635,7 +638,7 @@ class _Importer:
         self.session = session
         self.vehicle = vehicle
         self.source = source
-        head = _head(session, vehicle.id)
+        head = newest_entry(session, vehicle.id)
         self.state = RunningState() if head is None else head.state()
         self.prev_hash = GENESIS_HASH if head is None else head.entry_hash
         self.items = _Items.read(session, vehicle.id) if head is not None else _Items()
@@ -645,6 +648,9 @@ class _Importer:
         self.dates: dict[str, dt.date] = {}
 
     def _plausible(self, mass_kg: float) -> str | None:
+        # Imported here: it loads numpy, which only an import with a weighing needs.
+        from ledger.typedata.scales import implausible_empty_mass
+
         if self.vtype is None:
             self.vtype = vehicle_type_info(self.session, self.vehicle).vtype
         return implausible_empty_mass(self.vtype, mass_kg, "kg")
@@ -749,7 +755,7 @@ def _insert_rows(conn, rows: list[dict], chunk: int,
 
     On SQLite the rows go to the driver as tuples, with dates and timestamps converted by
     SQLAlchemy's own SQLite bind processors (so they are stored exactly as the ORM stores
-    them, and read back the same; :func:`ledger.store.entries.sqlite_insert`), each distinct
+    them, and read back the same; :func:`ledger.store.sqlite_path.sqlite_insert`), each distinct
     value once: this skips SQLAlchemy's per-row
     parameter processing, which otherwise costs more than the insert itself. Elsewhere it is a
     plain Core ``executemany`` of the dicts.
@@ -765,8 +771,6 @@ def _insert_rows(conn, rows: list[dict], chunk: int,
             if progress is not None:
                 progress(written)
         return
-    from ledger.store.entries import sqlite_insert
-
     plan = sqlite_insert(conn.dialect)
     memo = plan.memo()
     for i in range(0, len(rows), chunk):
