@@ -196,20 +196,7 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
     InputError
         A date in the future or before the previous entry; non-finite numbers.
     """
-    if kind not in ENTRY_KINDS:
-        raise InputError("kind", kind, "one of " + ", ".join(ENTRY_KINDS))
-    absolute = kind in ABSOLUTE_KINDS
-    if absolute == (state is None) or (delta is None) == (state is None):
-        need = "state" if absolute else "delta"
-        raise InputError(need, None, f"a {kind} entry is given its {need} (and not the other)")
-    given = state if absolute else delta
-    if len(given) != 4:
-        raise InputError("state" if absolute else "delta", given, "four values: m, mx, my, mz")
-    for name, v in zip(("mass", "mx", "my"), given[:3]):
-        if v is None or not math.isfinite(v):
-            raise InputError(f"{'state' if absolute else 'delta'}.{name}", v, "a finite number")
-    if given[3] is not None and not math.isfinite(given[3]):
-        raise InputError(f"{'state' if absolute else 'delta'}.mz", given[3], "a finite number")
+    given = _given(kind, delta, state)
     for name, v in (("item mass", item_mass_kg), ("--arm", item_x_m), ("--lat-arm", item_y_m),
                     ("--vert-arm", item_z_m)):
         if v is not None and not math.isfinite(v):
@@ -221,7 +208,7 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
     vehicle = _vehicle_row if _vehicle_row is not None else vehicle_key(session, registration,
                                                                       lock=True)
     head = newest_entry(session, vehicle.id) if _head_row is False else _head_row
-    effect = _apply(head, kind, day, Moments(*given), registration)
+    effect = _apply(head, kind, day, given, registration)
     values = {
         "vehicle_id": vehicle.id, "kind": kind, "entry_date": day,
         "recorded_at": _now() if recorded_at is None else utc(recorded_at),
@@ -245,6 +232,29 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
     values.pop("vehicle_id")
     values["z_known"] = effect.after.z_known
     return Entry(registration=vehicle.registration, id=new_id, **values)
+
+
+def _given(kind: str, delta: Sequence[float | None] | None,
+           state: Sequence[float | None] | None) -> Moments:
+    """The four values an entry of ``kind`` is given: its measured ``state`` for a weighing or
+    CG height, else its ``delta``; finite, ``mz`` None when not known."""
+    if kind not in ENTRY_KINDS:
+        raise InputError("kind", kind, "one of " + ", ".join(ENTRY_KINDS))
+    absolute = kind in ABSOLUTE_KINDS
+    if absolute == (state is None) or (delta is None) == (state is None):
+        need = "state" if absolute else "delta"
+        raise InputError(need, None, f"a {kind} entry is given its {need} (and not the other)")
+    given = state if absolute else delta
+    assert given is not None  # one of the two, checked above
+    what = "state" if absolute else "delta"
+    if len(given) != 4:
+        raise InputError(what, given, "four values: m, mx, my, mz")
+    for name, v in zip(("mass", "mx", "my"), given[:3]):
+        if v is None or not math.isfinite(v):
+            raise InputError(f"{what}.{name}", v, "a finite number")
+    if given[3] is not None and not math.isfinite(given[3]):
+        raise InputError(f"{what}.mz", given[3], "a finite number")
+    return Moments(*given)
 
 
 def _apply(head: Head | None, kind: str, day: dt.date, given: Moments,
