@@ -56,9 +56,7 @@ from ledger.core.ledger_rule import (
     negligible_change,
     reversal_delta,
 )
-from ledger.core.ledger_rule import (
-    LB as LB_KG,
-)
+from ledger.core.ledger_rule import LB as LB_KG
 from ledger.errors import ConflictError, InputError
 from ledger.store.chain import GENESIS_HASH, canonical_json, content_hash
 from ledger.store.entry_reads import (
@@ -79,12 +77,7 @@ from ledger.store.heads import (
     vehicle_key,
 )
 from ledger.store.models import ENTRY_KINDS, LedgerEntryRow
-from ledger.store.records import (
-    EmptyState,
-    Entry,
-    InstalledItem,
-    utc,
-)
+from ledger.store.records import EmptyState, Entry, InstalledItem, utc
 from ledger.store.roles import recorder
 from ledger.store.sqlite_path import driver, sqlite_insert
 from ledger.store.typeinfo import TypeInfo, type_info, vehicle_type_info
@@ -143,8 +136,6 @@ def _refuse_delete(_mapper, _connection, target) -> None:
 
 def _now() -> dt.datetime:
     return dt.datetime.now(dt.UTC)
-
-
 
 
 # --- appending ------------------------------------------------------------------------------
