@@ -36,6 +36,8 @@ from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
 
+from ledger.core.ledger_rule import ABSOLUTE_KINDS  # the ledger's rule; re-exported here
+
 __all__ = [
     "GENESIS_HASH",
     "CHAIN_VERSION",
@@ -69,9 +71,6 @@ HASHED_COLUMNS = (
     "z_known", "baseline_seq", "reverses_seq", "detail_json", "prev_hash",
 )
 
-#: Kinds whose running state is measured (set absolutely) rather than added to the previous
-#: state: their delta is ``state − previous state``.
-ABSOLUTE_KINDS = frozenset({"weighing", "cg_height"})
 
 _FLOATS = ("item_mass_kg", "item_x_m", "item_y_m", "item_z_m",
            "delta_mass_kg", "delta_mx_kgm", "delta_my_kgm", "delta_mz_kgm",
