@@ -3,9 +3,22 @@
 Pure (no database, no terminal). Public names::
 
     from ledger.loadsheet import build_sheet, EmptyWeight, ConfigurationItem, compare_plans
+    from ledger.loadsheet import SheetDocument   # the document's type
 
-The document is described in ``docs/sheet-document.md``; plans come from
-:mod:`ledger.typedata.plan`; saving and amending sheets is :mod:`ledger.store.sheets`.
+The document is described in ``docs/sheet-document.md`` and typed in
+:mod:`ledger.loadsheet.document`; plans come from :mod:`ledger.typedata.plan`; saving and
+amending sheets is the services' work. The modules, in the order a sheet is built:
+
+- :mod:`~ledger.loadsheet.inputs`: the empty weight, the configuration, the plan's load;
+- :mod:`~ledger.loadsheet.fuel`: usable fuel per tank at each phase, the burn states;
+- :mod:`~ledger.loadsheet.checks`: phase masses, envelopes, stations, floors, tanks;
+- :mod:`~ledger.loadsheet.burnpath`: the fuel-burn path against every envelope;
+- :mod:`~ledger.loadsheet.axles`: axle loads and axle-group rules (ground vehicles);
+- :mod:`~ledger.loadsheet.build`: the document from these parts (:func:`build_sheet`);
+- :mod:`~ledger.loadsheet.fix_options` and :mod:`~ledger.loadsheet.fixes`: the changes that
+  could help, and the search that re-checks each;
+- :mod:`~ledger.loadsheet.amend`: whether a changed plan is within the last-minute tolerance;
+- :mod:`~ledger.loadsheet.text`: the short texts of messages in display units.
 """
 
 from ledger.loadsheet.amend import AmendmentCheck, Change, compare_plans
@@ -17,6 +30,7 @@ from ledger.loadsheet.build import (
     EmptyWeight,
     build_sheet,
 )
+from ledger.loadsheet.document import SheetDocument
 
 __all__ = [
     "AIRCRAFT_PHASES",
@@ -26,6 +40,7 @@ __all__ = [
     "Change",
     "ConfigurationItem",
     "EmptyWeight",
+    "SheetDocument",
     "build_sheet",
     "compare_plans",
 ]
