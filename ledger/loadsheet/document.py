@@ -13,8 +13,8 @@ Examples
 ('Take-off', 'Zero-fuel', 'Holding pattern')
 """
 
-from __future__ import annotations
-
+# No ``from __future__ import annotations`` here: TypedDict reads NotRequired[...] from the
+# evaluated annotations (Python 3.11), and the document test compares those key sets.
 from typing import NotRequired, TypedDict
 
 __all__ = [
