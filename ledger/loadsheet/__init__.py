@@ -19,18 +19,28 @@ amending sheets is the services' work. The modules, in the order a sheet is buil
   could help, and the search that re-checks each;
 - :mod:`~ledger.loadsheet.amend`: whether a changed plan is within the last-minute tolerance;
 - :mod:`~ledger.loadsheet.text`: the short texts of messages in display units.
+
+The public names load their module on first use: a renderer that needs only
+:mod:`~ledger.loadsheet.text` or :mod:`~ledger.loadsheet.document` (the report's phase titles
+and volume decimals) does not import numpy and the calculation core with the builders.
 """
 
-from ledger.loadsheet.amend import AmendmentCheck, Change, compare_plans
-from ledger.loadsheet.build import (
-    AIRCRAFT_PHASES,
-    GROUND_PHASES,
-    SCHEMA,
-    ConfigurationItem,
-    EmptyWeight,
-    build_sheet,
-)
-from ledger.loadsheet.document import SheetDocument
+from __future__ import annotations
+
+import importlib
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from ledger.loadsheet.amend import AmendmentCheck, Change, compare_plans
+    from ledger.loadsheet.build import (
+        AIRCRAFT_PHASES,
+        GROUND_PHASES,
+        SCHEMA,
+        ConfigurationItem,
+        EmptyWeight,
+        build_sheet,
+    )
+    from ledger.loadsheet.document import SheetDocument
 
 __all__ = [
     "AIRCRAFT_PHASES",
@@ -44,3 +54,30 @@ __all__ = [
     "build_sheet",
     "compare_plans",
 ]
+
+_HOMES = {
+    "AIRCRAFT_PHASES": "build",
+    "GROUND_PHASES": "build",
+    "SCHEMA": "build",
+    "AmendmentCheck": "amend",
+    "Change": "amend",
+    "ConfigurationItem": "build",
+    "EmptyWeight": "build",
+    "SheetDocument": "document",
+    "build_sheet": "build",
+    "compare_plans": "amend",
+}
+
+
+def __getattr__(name: str) -> Any:
+    """A public name, from its module (imported on first use; PEP 562)."""
+    home = _HOMES.get(name)
+    if home is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(f"{__name__}.{home}"), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(__all__))

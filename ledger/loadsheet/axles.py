@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping
-from typing import Any, NamedTuple, cast
+from typing import TYPE_CHECKING, Any, NamedTuple, cast
 
 import numpy as np
 
@@ -35,7 +35,9 @@ from ledger.loadsheet.document import (
 )
 from ledger.loadsheet.text import excess_text, mass_text, phase_title
 from ledger.rules import load_rule_set
-from ledger.typedata.model import Axle, VehicleType
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Axle, VehicleType
 
 __all__ = ["supports", "axle_checks"]
 

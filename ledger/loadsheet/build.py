@@ -35,7 +35,7 @@ from __future__ import annotations
 import datetime as dt
 import math
 from collections.abc import Iterable
-from typing import Any, NamedTuple
+from typing import TYPE_CHECKING, Any, NamedTuple
 
 from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.core.massprops import moment_index
@@ -79,9 +79,11 @@ from ledger.loadsheet.inputs import (
     load_items,
 )
 from ledger.loadsheet.text import phase_title
-from ledger.typedata.model import Envelope, VehicleType
-from ledger.typedata.plan import Plan
 from ledger.units import to_unit
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Envelope, VehicleType
+    from ledger.typedata.plan import Plan
 
 __all__ = [
     "SCHEMA",

@@ -7,6 +7,8 @@ non-convex envelope that the path leaves between two in-limits end points is cau
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
 
 from ledger.core.envelope import covers, path_inside
@@ -15,7 +17,9 @@ from ledger.loadsheet.document import BurnPathDoc, FirstExit, PathEnvelope, Path
 from ledger.loadsheet.fuel import FuelStates
 from ledger.loadsheet.inputs import MassState
 from ledger.loadsheet.text import length_text, mass_text
-from ledger.typedata.model import Envelope, VehicleType
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Envelope, VehicleType
 
 __all__ = ["burn_path"]
 

@@ -8,7 +8,7 @@ limit, is in limits (``REL`` absorbs the rounding of unit conversions).
 
 from __future__ import annotations
 
-from typing import Literal, NamedTuple, TypedDict
+from typing import TYPE_CHECKING, Literal, NamedTuple, TypedDict
 
 import numpy as np
 
@@ -16,9 +16,11 @@ from ledger.core.envelope import margins
 from ledger.loadsheet.document import GROUND_PHASES, EnvelopeResult, StationDoc, Vector, Violation
 from ledger.loadsheet.inputs import finite
 from ledger.loadsheet.text import excess_text, length_text, mass_text, phase_title, volume_text
-from ledger.typedata.model import Envelope, VehicleType
-from ledger.typedata.plan import Plan
 from ledger.units import to_unit
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Envelope, VehicleType
+    from ledger.typedata.plan import Plan
 
 __all__ = ["REL", "envelopes_of", "polygon", "envelope_result", "mass_checks",
            "station_checks", "tank_checks"]

@@ -14,7 +14,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, replace
-from typing import Any, Literal, cast
+from typing import TYPE_CHECKING, Any, Literal, TypeAlias, cast
 
 import numpy as np
 
@@ -30,14 +30,16 @@ from ledger.errors import InputError
 from ledger.loadsheet.axles import supports
 from ledger.loadsheet.document import SheetDocument
 from ledger.loadsheet.text import length_text, mass_text
-from ledger.typedata.model import Station, VehicleType
-from ledger.typedata.plan import Plan
 from ledger.units import from_unit
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Station, VehicleType
+    from ledger.typedata.plan import Plan
 
 __all__ = ["FixOption", "FixFinder", "Rebuild"]
 
 #: ``rebuild(changed_plan) -> document``: the sheet built again, without fixes.
-Rebuild = Callable[[Plan], SheetDocument]
+Rebuild: TypeAlias = "Callable[[Plan], SheetDocument]"
 
 
 # --- what is wrong, read back from a document ---------------------------------------------------

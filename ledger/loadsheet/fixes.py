@@ -23,13 +23,15 @@ was checked.
 
 from __future__ import annotations
 
-from typing import cast
+from typing import TYPE_CHECKING, cast
 
 from ledger.errors import InputError
 from ledger.loadsheet.document import AfterDoc, FixDoc, FixStep, SheetDocument
 from ledger.loadsheet.fix_options import FixFinder, FixOption, Rebuild
-from ledger.typedata.model import VehicleType
-from ledger.typedata.plan import Plan
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import VehicleType
+    from ledger.typedata.plan import Plan
 
 __all__ = ["find_fixes", "MAX_FIXES"]
 

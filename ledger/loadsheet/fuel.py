@@ -8,15 +8,17 @@ weight, so every figure here is usable fuel.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from ledger.core.fuel import Tank as CoreTank
 from ledger.core.fuel import burn_states
 from ledger.loadsheet.document import TankDoc
-from ledger.typedata.model import Tank, VehicleType
-from ledger.typedata.plan import Plan, TankLoad
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Tank, VehicleType
+    from ledger.typedata.plan import Plan, TankLoad
 
 __all__ = ["FuelStates", "fuel_states", "fuel_doc"]
 

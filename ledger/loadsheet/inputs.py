@@ -10,12 +10,14 @@ import datetime as dt
 import math
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ledger.errors import PlanError
 from ledger.loadsheet.document import ConfigurationItemDoc, ItemDoc, Vector
-from ledger.typedata.model import Station, VehicleType
-from ledger.typedata.plan import Plan
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Station, VehicleType
+    from ledger.typedata.plan import Plan
 
 __all__ = ["EmptyWeight", "ConfigurationItem", "MassState", "finite", "attr", "iso_date",
            "empty_mass_state", "config_items", "load_items"]
