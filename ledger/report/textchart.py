@@ -223,6 +223,8 @@ def nice_ticks(lo: float, hi: float, count: int = 5) -> list[float]:
     if not (math.isfinite(lo) and math.isfinite(hi)) or hi <= lo or count < 1:
         return [lo]
     raw = (hi - lo) / count
+    if not raw >= 1e-300:  # a subnormal span: log10 of its step would underflow to log10(0)
+        return [lo]
     mag = 10 ** math.floor(math.log10(raw))
     step = next(m * mag for m in (1, 2, 2.5, 5, 10) if m * mag >= raw * 0.999)
     first = math.ceil(lo / step - 1e-9) * step
