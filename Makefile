@@ -21,6 +21,8 @@ demo: $(STAMP)
 
 test: $(STAMP)
 	@bash tools/ensure-test-tools
+	$(PY) -m ruff check ledger tests bench
+	$(PY) -m mypy
 	$(PY) -m pytest
 
 bench: $(STAMP)

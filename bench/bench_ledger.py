@@ -107,15 +107,13 @@ def records(n: int) -> list[tuple[int, dict]]:
 
 def _fresh(folder: Path, name: str, vehicles: list[str]):
     """A new ledger file built through the migrations, with the benchmark type and vehicles."""
-    from ledger.store.catalog import add_vehicle, import_type
-    from ledger.store.db import make_engine, session_scope, upgrade
-    from ledger.typedata import parse_type_text
+    from ledger.store.catalog import add_vehicle
+    from ledger.store.db import session_scope
+    from ledger.testing import import_types, new_ledger
 
-    eng = make_engine(f"sqlite:///{folder / name}")
-    upgrade(eng)
-    vt = parse_type_text(TYPE, source="bx-1.toml")
+    eng = new_ledger(f"sqlite:///{folder / name}")
     with session_scope(eng) as s:
-        import_type(s, vt, "bx-1.toml", TYPE)
+        import_types(s, {"bx-1.toml": TYPE})
         for reg in vehicles:
             add_vehicle(s, reg, "BX-1")
     return eng

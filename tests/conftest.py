@@ -175,10 +175,9 @@ def db_url(request, tmp_path):
 @pytest.fixture
 def engine(db_url):
     """An engine on a fresh database whose schema was built through the migrations."""
-    from ledger.store.db import make_engine, upgrade
+    from ledger.testing import new_ledger
 
-    eng = make_engine(db_url)
-    upgrade(eng)
+    eng = new_ledger(db_url)
     try:
         yield eng
     finally:

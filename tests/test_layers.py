@@ -40,16 +40,7 @@ ALLOWED: dict[str, set[str]] = {
 }
 
 #: Imports that break the layers today and are being moved (issue 12). Empty when it is done.
-KNOWN: set[tuple[str, str]] = {
-    ("ledger.cli.maintenance", "ledger.store.configs"),
-    ("ledger.cli.maintenance", "ledger.store.db"),
-    ("ledger.cli.maintenance", "ledger.store.entries"),
-    ("ledger.cli.maintenance", "ledger.store.transfer"),
-    ("ledger.cli.maintenance", "ledger.store.views"),
-    ("ledger.cli.vehicles", "ledger.store.catalog"),
-    ("ledger.cli.vehicles", "ledger.store.db"),
-    ("ledger.cli.vehicles", "ledger.store.views"),
-}
+KNOWN: set[tuple[str, str]] = set()
 
 
 def _part(module: str) -> str | None:

@@ -41,7 +41,8 @@ def test_wheel_install_runs_migrations(tmp_path):
                          capture_output=True, text=True)
     assert out.returncode == 0, out.stderr
     assert "Schema empty -> " in out.stdout
-    where = subprocess.run([str(py), "-c", "import ledger.store.db as d; print(d.migrations_dir())"],
+    where = subprocess.run([str(py), "-c",
+                            "import ledger.store.db as d; print(d.migrations_dir())"],
                            env=env, cwd=tmp_path, capture_output=True, text=True, check=True)
     assert str(env_dir) in where.stdout
     status = subprocess.run([str(env_dir / "bin" / "wbledger"), "db", "status", "--json"],

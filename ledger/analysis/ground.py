@@ -275,24 +275,8 @@ def cg_height_document(*, total_kg: float, wheelbase_m: float, wheel_radius_m: f
     grounded = "front" if raised == "rear" else "rear"
     tilted = [float(v) for v in tilted_kg]
     angles = [float(a) for a in angles_deg]
-    if not tilted:
-        raise InputError(f"--{grounded}-tilted", MISSING,
-                         "at least one load with the axle raised, with its --angle or --lift")
-    if len(angles) != len(tilted):
-        raise InputError("--angle", angles,
-                         f"one angle (or lift) per --{grounded}-tilted load: {len(tilted)} "
-                         f"load(s), {len(angles)} angle(s)")
-    if total_tilted_kg is not None and len(total_tilted_kg) != len(tilted):
-        raise InputError("--total-tilted", list(total_tilted_kg),
-                         f"one total per --{grounded}-tilted load ({len(tilted)})")
-    if empty_mass_kg is not None and empty_mass_kg > 0:
-        dev = (total_kg - empty_mass_kg) / empty_mass_kg
-        if abs(dev) > mass_rtol:
-            raise InputError(
-                "--total", round(total_kg, 3),
-                f"within {mass_rtol * 100:g} % of the recorded empty mass "
-                f"{empty_mass_kg:.1f} kg (it is {dev * 100:+.1f} %)",
-                hint="Weigh the vehicle in its empty condition, or record a new weighing first")
+    _check_readings(grounded, tilted, angles, total_tilted_kg)
+    _check_empty_mass(total_kg, empty_mass_kg, mass_rtol)
     try:
         res = cg_height_axle_lift(total_kg, wheelbase_m, level_kg, tilted,
                                   [math.radians(a) for a in angles], wheel_radius_m,
@@ -334,6 +318,33 @@ def cg_height_document(*, total_kg: float, wheelbase_m: float, wheel_radius_m: f
                         "deflection change not corrected",
                         "the vehicle weighed in its empty condition as the type data defines"],
     }
+
+
+def _check_readings(grounded: str, tilted: list[float], angles: list[float],
+                    total_tilted_kg: Sequence[float] | None) -> None:
+    """One angle (and one total, if any) per tilted load, and at least one load."""
+    if not tilted:
+        raise InputError(f"--{grounded}-tilted", MISSING,
+                         "at least one load with the axle raised, with its --angle or --lift")
+    if len(angles) != len(tilted):
+        raise InputError("--angle", angles,
+                         f"one angle (or lift) per --{grounded}-tilted load: {len(tilted)} "
+                         f"load(s), {len(angles)} angle(s)")
+    if total_tilted_kg is not None and len(total_tilted_kg) != len(tilted):
+        raise InputError("--total-tilted", list(total_tilted_kg),
+                         f"one total per --{grounded}-tilted load ({len(tilted)})")
+
+
+def _check_empty_mass(total_kg: float, empty_mass_kg: float | None, mass_rtol: float) -> None:
+    """The weighed total is the recorded empty mass, within ``mass_rtol``."""
+    if empty_mass_kg is not None and empty_mass_kg > 0:
+        dev = (total_kg - empty_mass_kg) / empty_mass_kg
+        if abs(dev) > mass_rtol:
+            raise InputError(
+                "--total", round(total_kg, 3),
+                f"within {mass_rtol * 100:g} % of the recorded empty mass "
+                f"{empty_mass_kg:.1f} kg (it is {dev * 100:+.1f} %)",
+                hint="Weigh the vehicle in its empty condition, or record a new weighing first")
 
 
 def _as_options(exc: InputError, grounded: str) -> None:

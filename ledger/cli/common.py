@@ -62,7 +62,8 @@ def emit(data: Any, render: Callable[[Any], None], as_json: bool) -> None:
         render(data)
 
 
-JSON_OPTION = typer.Option(False, "--json", help="Print JSON (explicit unit names) instead of text.")
+JSON_OPTION = typer.Option(False, "--json",
+                           help="Print JSON (explicit unit names) instead of text.")
 
 
 def actor(by: str | None) -> str:

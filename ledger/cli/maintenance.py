@@ -1,8 +1,9 @@
 """Maintenance commands: ``weigh``, ``install``, ``remove``, ``correct``, ``history``,
 ``export`` and ``import-history``.
 
-Each command parses its options, makes its call into :mod:`ledger.store` inside one
-transaction, and renders the result with :mod:`ledger.report.ledger`. Quantities are typed with
+Each command parses its options, makes one call into a service (:mod:`ledger.services.weighing`,
+:mod:`ledger.services.equipment`, :mod:`ledger.services.history`), and renders the result with
+:mod:`ledger.report.ledger`. Quantities are typed with
 their unit ("520 lb", "47.5 in"); a bare number takes the vehicle type's display unit.
 """
 
@@ -49,14 +50,11 @@ def _pairs(values: list[str] | None, option: str, example: str) -> dict[str, str
 
 
 def _recorded(ctx: typer.Context, as_json: bool, call) -> None:
-    """Run ``call(session)`` (an append) in one transaction and show the entry it made."""
+    """Run ``call(engine)`` (a service that appends an entry) and show the entry it made."""
     from ledger.report.ledger import render_entry
-    from ledger.store.db import session_scope
-    from ledger.store.views import entry_view
 
-    with session_scope(common.state(ctx).engine()) as session:
-        data = entry_view(session, call(session))
-    common.emit(data, render_entry, as_json)
+    recorded = call(common.state(ctx).engine())
+    common.emit(recorded.document, render_entry, as_json)
 
 
 def weigh(ctx: typer.Context, registration: str = REG_ARG,
@@ -83,15 +81,14 @@ def weigh(ctx: typer.Context, registration: str = REG_ARG,
           reference: str = REF_OPTION,
           by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record a weighing: the empty mass and CG from the scale readings start a new baseline."""
-    from ledger.store.configs import parse_item_spec
-    from ledger.store.entries import record_weighing
+    from ledger.services import weighing
 
     readings = _pairs(reading, "--reading", "nose=520 lb")
     tares = _pairs(tare, "--tare", "nose=4 lb")
     fuels = _pairs(fuel, "--fuel", "'left wing=10 USgal'")
-    adjustments = [parse_item_spec(a, field="--adjust") for a in adjust or []]
-    _recorded(ctx, as_json, lambda s: record_weighing(
-        s, registration, readings, tares=tares, fuel=fuels, adjustments=adjustments,
+    adjustments = weighing.parse_adjustments(adjust)
+    _recorded(ctx, as_json, lambda engine: weighing.weigh(
+        engine, registration, readings, tares=tares, fuel=fuels, adjustments=adjustments,
         actor=common.actor(by), entry_date=entry_date, scales=scales, level=level, note=note,
         reason=reason, reference=reference))
 
@@ -112,10 +109,10 @@ def install(ctx: typer.Context, registration: str = REG_ARG,
             reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
             by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record the installation of an item (adds its mass at its arms)."""
-    from ledger.store.entries import install_item
+    from ledger.services import equipment
 
-    _recorded(ctx, as_json, lambda s: install_item(
-        s, registration, item, mass=mass, arm=arm, lat_arm=lat_arm, vert_arm=vert_arm,
+    _recorded(ctx, as_json, lambda engine: equipment.install(
+        engine, registration, item, mass=mass, arm=arm, lat_arm=lat_arm, vert_arm=vert_arm,
         shape=shape, actor=common.actor(by), reason=reason, reference=reference,
         entry_date=entry_date))
 
@@ -131,10 +128,10 @@ def remove(ctx: typer.Context, registration: str = REG_ARG,
            reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record the removal of an installed item (with its recorded mass and arms)."""
-    from ledger.store.entries import remove_item
+    from ledger.services import equipment
 
-    _recorded(ctx, as_json, lambda s: remove_item(
-        s, registration, item, mass=mass, arm=arm, lat_arm=lat_arm, vert_arm=vert_arm,
+    _recorded(ctx, as_json, lambda engine: equipment.remove(
+        engine, registration, item, mass=mass, arm=arm, lat_arm=lat_arm, vert_arm=vert_arm,
         actor=common.actor(by), reason=reason, reference=reference, entry_date=entry_date))
 
 
@@ -146,10 +143,10 @@ def correct(ctx: typer.Context, registration: str = REG_ARG,
             reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
             by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Reverse an installation or removal with a new entry that says why."""
-    from ledger.store.entries import correct_entry
+    from ledger.services import equipment
 
-    _recorded(ctx, as_json, lambda s: correct_entry(
-        s, registration, seq, reason=reason, actor=common.actor(by), reference=reference,
+    _recorded(ctx, as_json, lambda engine: equipment.correct(
+        engine, registration, seq, reason=reason, actor=common.actor(by), reference=reference,
         entry_date=entry_date))
 
 
@@ -159,11 +156,9 @@ def history(ctx: typer.Context, registration: str = REG_ARG,
             as_json: bool = common.JSON_OPTION) -> None:
     """The running record: per entry the change, then empty mass, moment, CG and %MAC."""
     from ledger.report.ledger import render_history
-    from ledger.store.db import session_scope
-    from ledger.store.views import history_view
+    from ledger.services.history import running_record
 
-    with session_scope(common.state(ctx).engine()) as session:
-        data = history_view(session, registration, as_of=as_of)
+    data = running_record(common.state(ctx).engine(), registration, as_of=as_of)
     common.emit(data, render_history, as_json)
 
 
@@ -174,13 +169,11 @@ def export(ctx: typer.Context, registration: str = REG_ARG,
                                        help="Write to FILE (default: standard output).")) -> None:
     """Export a vehicle's whole ledger, exactly (values, dates and hashes)."""
     from ledger.files import check_output_path, write_output
-    from ledger.store.db import session_scope
-    from ledger.store.transfer import export_history
+    from ledger.services.history import export as export_history
 
     if output is not None:
         check_output_path(output, "--output")
-    with session_scope(common.state(ctx).engine()) as session:
-        text = export_history(session, registration, fmt)
+    text = export_history(common.state(ctx).engine(), registration, fmt)
     if output is None:
         typer.echo(text, nl=False)
     else:
@@ -199,8 +192,7 @@ def import_history(ctx: typer.Context, registration: str = REG_ARG,
     from ledger.errors import InputError
     from ledger.files import read_input_text
     from ledger.report.ledger import render_import
-    from ledger.store.db import session_scope
-    from ledger.store.transfer import import_history as do_import
+    from ledger.services.history import import_file
 
     limit = common.size_limit(max_size)
     fmt = fmt or file.suffix.lower().lstrip(".")
@@ -209,6 +201,6 @@ def import_history(ctx: typer.Context, registration: str = REG_ARG,
                          "does not end in .csv or .json)")
     text = read_input_text(file, field="FILE", what=f"a history file ({fmt.upper()})",
                            limit=HISTORY_LIMIT if limit is None else limit)
-    with session_scope(common.state(ctx).engine()) as session:
-        summary = do_import(session, registration, text, fmt, source=file.name)
+    summary = import_file(common.state(ctx).engine(), registration, text, fmt,
+                          source=file.name)
     common.emit(summary.to_dict(), render_import, as_json)

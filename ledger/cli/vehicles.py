@@ -22,11 +22,9 @@ def add(ctx: typer.Context,
         note: str = typer.Option(None, "--note", help="Free text."),
         ) -> None:
     """Add a vehicle of an imported type."""
-    from ledger.store.catalog import add_vehicle
-    from ledger.store.db import session_scope
+    from ledger.services.fleet import add_vehicle
 
-    with session_scope(common.state(ctx).engine()) as session:
-        add_vehicle(session, registration, type_name, serial=serial, note=note)
+    add_vehicle(common.state(ctx).engine(), registration, type_name, serial=serial, note=note)
     typer.echo(f"Added {registration} ({type_name}). Record its first weighing with "
                f"`wbledger weigh {registration}`.")
 
@@ -35,11 +33,9 @@ def add(ctx: typer.Context,
 def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
     """The fleet: each vehicle's current empty mass and CG, last weighing and warnings."""
     from ledger.report.ledger import render_fleet
-    from ledger.store.db import session_scope
-    from ledger.store.views import fleet_view
+    from ledger.services.fleet import fleet
 
-    with session_scope(common.state(ctx).engine()) as session:
-        data = fleet_view(session)
+    data = fleet(common.state(ctx).engine())
     common.emit(data, render_fleet, as_json)
 
 
@@ -48,9 +44,7 @@ def show(ctx: typer.Context, registration: str = typer.Argument(..., metavar="RE
          as_json: bool = common.JSON_OPTION) -> None:
     """One vehicle: its type, current empty mass and CG, and last entries."""
     from ledger.report.ledger import render_vehicle
-    from ledger.store.db import session_scope
-    from ledger.store.views import vehicle_view
+    from ledger.services.fleet import vehicle
 
-    with session_scope(common.state(ctx).engine()) as session:
-        data = vehicle_view(session, registration)
+    data = vehicle(common.state(ctx).engine(), registration)
     common.emit(data, render_vehicle, as_json)

@@ -11,7 +11,7 @@ import numpy as np
 
 from ledger.errors import InputError
 
-__all__ = ["plain", "finite_float"]
+__all__ = ["plain", "finite_float", "index_text"]
 
 
 def plain(a):
@@ -48,3 +48,14 @@ def finite_float(value, field: str, allowed: str, error: type[InputError] = Inpu
     if not math.isfinite(v):
         raise error(field, v, allowed)
     return v
+
+
+def index_text(idx) -> str:
+    """An array index as error messages show it: ``(2, 0)`` becomes ``"2, 0"``.
+
+    Examples
+    --------
+    >>> index_text((np.int64(2), 0)), index_text(())
+    ('2, 0', '')
+    """
+    return ", ".join(str(int(i)) for i in idx)

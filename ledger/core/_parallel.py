@@ -55,7 +55,8 @@ def split(run, n: int, k: int, grain: int) -> list:
     """``[run(lo, hi), ...]`` over ``0:n`` in ``k`` shares of whole grains, in order."""
     if k <= 1 or n <= grain:
         return [run(0, n)]
-    per = -(-(-(-n // grain)) // k) * grain             # whole grains per share
+    grains = -(-n // grain)                              # ceil(n / grain)
+    per = -(-grains // k) * grain                        # whole grains per share
     bounds = [(lo, min(n, lo + per)) for lo in range(0, n, per)]
     futures = [_pool().submit(run, lo, hi) for lo, hi in bounds[1:]]
     return [run(*bounds[0])] + [f.result() for f in futures]

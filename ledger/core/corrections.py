@@ -11,10 +11,10 @@ Maintenance Technician Handbook, FAA-H-8083-30, ch. 4):
 
 Every function returns the figure a loading sheet proposes ("move 65 lb from station 150 to
 station 30") and does not decide for the caller; re-check the fixed state with
-:func:`new_cg_after_change` / :func:`cg_after_shift` or :func:`ledger.core.massprops.mass_properties`
-and the envelope functions before showing it. Units are whatever the caller uses consistently
-(kg and m inside wbledger). Results are figures computed from the recorded data, not approved
-data: the flight manual governs.
+:func:`new_cg_after_change` / :func:`cg_after_shift` or
+:func:`ledger.core.massprops.mass_properties` and the envelope functions before showing it.
+Units are whatever the caller uses consistently (kg and m inside wbledger). Results are figures
+computed from the recorded data, not approved data: the flight manual governs.
 
 Impossible fixes raise :class:`ledger.errors.CorrectionError` naming the field, the value and
 what would work.
@@ -27,6 +27,7 @@ from typing import NamedTuple
 import numpy as np
 
 from ledger.core import envelope as _env
+from ledger.core._common import index_text, plain
 from ledger.errors import CorrectionError
 
 __all__ = [
@@ -39,11 +40,6 @@ __all__ = [
     "max_addable_mass",
     "AddableMass",
 ]
-
-
-def _plain(a):
-    a = np.asarray(a)
-    return a.item() if a.ndim == 0 else a
 
 
 def _arr(value, field: str, allowed: str = "a finite number") -> np.ndarray:
@@ -61,15 +57,15 @@ def _at(field: str, a: np.ndarray, flat: int) -> str:
     """``field`` or ``field[i, j]`` for element ``flat`` of a broadcast array."""
     if a.ndim == 0:
         return field
-    idx = np.unravel_index(flat, a.shape)
-    return f"{field}[{', '.join(str(int(i)) for i in idx)}]"
+    return f"{field}[{index_text(np.unravel_index(flat, a.shape))}]"
 
 
 def _positive_mass(value, field: str = "total_mass") -> np.ndarray:
     a = _arr(value, field, "a finite mass above 0")
     if np.any(a <= 0):
         bad = int(np.argmax((a <= 0).reshape(-1)))
-        raise CorrectionError(_at(field, a, bad), float(a.reshape(-1)[bad]), "a finite mass above 0")
+        raise CorrectionError(_at(field, a, bad), float(a.reshape(-1)[bad]),
+                              "a finite mass above 0")
     return a
 
 
@@ -128,7 +124,7 @@ def shift_mass(total_mass, cg, target_cg, arm_from, arm_to):
             "within one arm does not move the CG")
     with np.errstate(divide="ignore", invalid="ignore"):
         dm = np.where(t == c, 0.0, M * (t - c) / np.where(span == 0, 1.0, span))
-    return _plain(dm)
+    return plain(dm)
 
 
 def cg_after_shift(total_mass, cg, moved_mass, arm_from, arm_to):
@@ -146,7 +142,7 @@ def cg_after_shift(total_mass, cg, moved_mass, arm_from, arm_to):
     dm = _arr(moved_mass, "moved_mass")
     a0 = _arr(arm_from, "arm_from")
     a1 = _arr(arm_to, "arm_to")
-    return _plain(c + dm * (a1 - a0) / M)
+    return plain(c + dm * (a1 - a0) / M)
 
 
 def ballast_mass(total_mass, cg, limit_cg, ballast_arm):
@@ -209,7 +205,7 @@ def ballast_mass(total_mass, cg, limit_cg, ballast_arm):
                   f"{float(c.reshape(-1)[k]):g} to {L:g}; choose a station beyond the limit"))
     with np.errstate(divide="ignore", invalid="ignore"):
         dm = np.where(need == 0, 0.0, M * need / np.where(reach == 0, 1.0, reach))
-    return _plain(dm)
+    return plain(dm)
 
 
 def offload_for_mass_limit(mass, limit):
@@ -226,8 +222,9 @@ def offload_for_mass_limit(mass, limit):
     lim = _positive_mass(limit, "limit")
     if np.any(m < 0):
         k = _first(m < 0)
-        raise CorrectionError(_at("mass", m, k), float(m.reshape(-1)[k]), "a finite mass of 0 or more")
-    return _plain(np.maximum(m - lim, 0.0))
+        raise CorrectionError(_at("mass", m, k), float(m.reshape(-1)[k]),
+                              "a finite mass of 0 or more")
+    return plain(np.maximum(m - lim, 0.0))
 
 
 def offload_for_cg_limit(total_mass, cg, limit_cg, station_arm):
@@ -276,7 +273,7 @@ def offload_for_cg_limit(total_mass, cg, limit_cg, station_arm):
                  "offload from a station further out")
     with np.errstate(divide="ignore", invalid="ignore"):
         dm = np.where(excess == 0, 0.0, M * excess / np.where(a == lim, 1.0, a - lim))
-    return _plain(dm)
+    return plain(dm)
 
 
 def new_cg_after_change(total_mass, cg, delta_mass, arm):
@@ -308,7 +305,7 @@ def new_cg_after_change(total_mass, cg, delta_mass, arm):
         raise CorrectionError(
             _at("delta_mass", dm, k), float(dm.reshape(-1)[k]),
             f"a change that leaves some mass (more than -{float(M.reshape(-1)[k]):g})")
-    return _plain((M * c + dm * a) / after)
+    return plain((M * c + dm * a) / after)
 
 
 class AddableMass(NamedTuple):
@@ -337,7 +334,7 @@ def _exit_along(prep, M: float, mom: float, a: float, T: float, kind: str, r: fl
     P = prep.P
     x1, y1 = P[:, 0], P[:, 1]
     dx, dy = np.roll(x1, -1) - x1, np.roll(y1, -1) - y1
-    ts = [0.0, T]
+    ts: list[float] = [0.0, T]
     for k in range(len(P)):
         if kind == "moment":
             # (mom + (y1 + s·dy − M)·a)/r = x1 + s·dx
@@ -369,10 +366,10 @@ def _exit_along(prep, M: float, mom: float, a: float, T: float, kind: str, r: fl
                 t = y1[k] + min(max(s, 0.0), 1.0) * dy[k] - M
                 if 0.0 < t < T:
                     ts.append(float(t))
-    ts = np.unique(np.asarray(ts))
-    if ts.size < 2:
+    cuts = np.unique(np.asarray(ts))
+    if cuts.size < 2:
         return T
-    mid = 0.5 * (ts[:-1] + ts[1:])
+    mid = 0.5 * (cuts[:-1] + cuts[1:])
     if kind == "moment":
         mx = (mom + mid * a) / r
     else:
@@ -381,7 +378,7 @@ def _exit_along(prep, M: float, mom: float, a: float, T: float, kind: str, r: fl
     ok = np.atleast_1d(ok)
     if ok.all():
         return T
-    return float(ts[int(np.argmin(ok))])
+    return float(cuts[int(np.argmin(ok))])
 
 
 def max_addable_mass(total_mass, cg, arm, *, mass_limit, envelope=None, moment_envelope=False,

@@ -28,7 +28,6 @@ import datetime as dt
 from dataclasses import dataclass
 from typing import Any, NamedTuple
 
-from ledger.core.fuel import LB
 from ledger.errors import LedgerError
 
 __all__ = [
@@ -48,6 +47,10 @@ __all__ = [
     "leaves_installed",
     "negligible_change",
 ]
+
+#: 1 lb in kg, exact (NIST SP 811, appendix B). Not imported from ledger.core.fuel, which
+#: loads numpy: the append path does not need it.
+LB = 0.45359237
 
 #: Kinds whose running state is measured (set absolutely) rather than added to the previous
 #: state: their delta is ``state − previous state``.

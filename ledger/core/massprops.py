@@ -18,6 +18,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from ledger.core._common import index_text, plain
 from ledger.errors import MassPropertiesError
 
 __all__ = [
@@ -77,7 +78,7 @@ class MassState(NamedTuple):
             mass = mass[..., None]
         with np.errstate(divide="ignore", invalid="ignore"):
             cg = np.where(mass > 0, moment / np.where(mass > 0, mass, 1.0), np.nan)
-        return _plain(cg)
+        return plain(cg)
 
 
 class _Shown:
@@ -93,23 +94,13 @@ class _Shown:
         return self.text
 
 
-def _plain(a):
-    """0-d arrays become Python floats/bools; other arrays are returned as they are."""
-    a = np.asarray(a)
-    if a.ndim == 0:
-        return a.item()
-    return a
-
-
-def _index_text(idx: tuple[int, ...]) -> str:
-    return ", ".join(str(int(i)) for i in idx)
-
 
 def _as_float_array(value, field: str) -> np.ndarray:
     try:
         return np.asarray(value, dtype=float)
     except (TypeError, ValueError):
-        raise MassPropertiesError(field, value, "numbers (a number or an array of numbers)") from None
+        raise MassPropertiesError(field, value,
+                                  "numbers (a number or an array of numbers)") from None
 
 
 def _check_masses(m: np.ndarray, field: str = "masses", *, infinite: bool = True) -> None:
@@ -122,7 +113,7 @@ def _check_masses(m: np.ndarray, field: str = "masses", *, infinite: bool = True
         return
     bad = ~(np.isfinite(m) & (m >= 0.0))
     idx = np.unravel_index(int(np.argmax(bad)), m.shape)
-    raise MassPropertiesError(f"{field}[{_index_text(idx)}]", float(m[idx]),
+    raise MassPropertiesError(f"{field}[{index_text(idx)}]", float(m[idx]),
                               "a finite mass of 0 or more")
 
 
@@ -130,7 +121,7 @@ def _check_finite(a: np.ndarray, field: str, allowed: str) -> None:
     if a.size == 0 or np.isfinite(a).all():
         return
     idx = np.unravel_index(int(np.argmax(~np.isfinite(a))), a.shape)
-    text = _index_text(idx)
+    text = index_text(idx)
     raise MassPropertiesError(f"{field}[{text}]" if text else field, float(a[idx]), allowed)
 
 
@@ -184,6 +175,26 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
         raise MassPropertiesError("masses", _Shown("[]"),
                                   "at least one item; the item set is empty")
     _check_masses(m, infinite=False)
+    arms = _checked_arms(m, x, y, z)
+    total, moments_given = _totals(m, [a for a in arms if a is not None])
+    _check_totals(m, total, moments_given, arms)
+    moments: list = []
+    cgs: list = []
+    it = iter(moments_given)
+    for arm in arms:
+        if arm is None:
+            moments.append(None)
+            cgs.append(None)
+        else:
+            moment = next(it)
+            moments.append(plain(moment))
+            cgs.append(plain(moment / total))
+    return MassProperties(plain(total), Vector3(*moments), Vector3(*cgs))
+
+
+def _checked_arms(m: np.ndarray, x, y, z) -> list[np.ndarray | None]:
+    """The arms per axis as float arrays (None where not given), each checked finite and
+    broadcastable against the masses, one per item."""
     arms: list[np.ndarray | None] = []
     for field, value in (("x", x), ("y", y), ("z", z)):
         if value is None:
@@ -203,8 +214,11 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
                                       f"one arm per item ({m.shape[-1]} items)")
         _check_finite(a, field, "a finite arm")
         arms.append(a)
+    return arms
 
-    shared = [a for a in arms if a is not None]
+
+def _totals(m: np.ndarray, shared: list[np.ndarray]) -> tuple[np.ndarray, list[np.ndarray]]:
+    """Total mass and one moment per given axis, per loading case."""
     # Overflow and inf·0 show up as non-finite sums, reported below with the field named.
     with np.errstate(over="ignore", invalid="ignore"):
         if all(a.ndim == 1 for a in shared):
@@ -219,7 +233,12 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
         else:
             total = m @ np.ones(m.shape[-1])
             moments_given = [np.einsum("...i,...i->...", m, a) for a in shared]
+    return total, moments_given
 
+
+def _check_totals(m: np.ndarray, total: np.ndarray, moments_given: list[np.ndarray],
+                  arms: list[np.ndarray | None]) -> None:
+    """Raise for a total mass that is not above 0 and finite, or a non-finite moment."""
     # Fast screens first (one reduction each); the precise search runs only on failure.
     if not (np.min(total) > 0.0 and np.isfinite(np.max(total))):
         if not np.all(np.isfinite(total)):
@@ -227,7 +246,7 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
             raise MassPropertiesError("sum(masses)", float("inf"),
                                       "a finite total mass; the masses are too large")
         idx = np.unravel_index(int(np.argmax(~(total > 0.0))), total.shape)
-        where = f"masses[{_index_text(idx)}, :]" if idx else "masses"
+        where = f"masses[{index_text(idx)}, :]" if idx else "masses"
         raise MassPropertiesError(f"sum({where})", float(total[idx]),
                                   "a total mass above 0; a CG needs at least one item with mass")
     for k, mo in enumerate(moments_given):
@@ -237,19 +256,6 @@ def mass_properties(masses, x, y=None, z=None) -> MassProperties:
             name = ("x", "y", "z")[[i for i, a in enumerate(arms) if a is not None][k]]
             raise MassPropertiesError(f"moment about {name}", float(mo[~np.isfinite(mo)].flat[0]),
                                       "a finite moment; masses or arms are too large")
-
-    moments: list = []
-    cgs: list = []
-    it = iter(moments_given)
-    for a in arms:
-        if a is None:
-            moments.append(None)
-            cgs.append(None)
-        else:
-            mo = next(it)
-            moments.append(_plain(mo))
-            cgs.append(_plain(mo / total))
-    return MassProperties(_plain(total), Vector3(*moments), Vector3(*cgs))
 
 
 def moment_index(moment, reduction):
@@ -275,7 +281,7 @@ def moment_index(moment, reduction):
     if not (np.isfinite(r) and r > 0):
         raise MassPropertiesError("reduction", r,
                                   "a positive reduction factor such as 100, 1000 or 10000")
-    return _plain(np.asarray(moment, dtype=float) / r)
+    return plain(np.asarray(moment, dtype=float) / r)
 
 
 def _check_mac(mac) -> float:
@@ -308,7 +314,7 @@ def percent_mac(cg_x, lemac, mac):
     [0.0, 100.0]
     """
     mac_value = _check_mac(mac)
-    return _plain((np.asarray(cg_x, dtype=float) - float(lemac)) / mac_value * 100.0)
+    return plain((np.asarray(cg_x, dtype=float) - float(lemac)) / mac_value * 100.0)
 
 
 def cg_from_percent_mac(pct, lemac, mac):
@@ -320,7 +326,7 @@ def cg_from_percent_mac(pct, lemac, mac):
     2.75
     """
     mac_value = _check_mac(mac)
-    return _plain(float(lemac) + np.asarray(pct, dtype=float) / 100.0 * mac_value)
+    return plain(float(lemac) + np.asarray(pct, dtype=float) / 100.0 * mac_value)
 
 
 def _state_change(state_mass, state_moment, masses, arms, sign: float) -> MassState:
@@ -361,7 +367,7 @@ def _state_change(state_mass, state_moment, masses, arms, sign: float) -> MassSt
                 f"a total removed of at most the recorded mass {float(np.asarray(M)[i]):g}; "
                 "removing them would leave a negative mass")
         new_mass = np.where(new_mass < 0, 0.0, new_mass)
-    return MassState(_plain(new_mass), _plain(mom + sign * dmom))
+    return MassState(plain(new_mass), plain(mom + sign * dmom))
 
 
 def add_items(state_mass, state_moment, masses, arms) -> MassState:

@@ -107,11 +107,7 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
     env = prepare_sweep(polygon, tol)
     thread_count(threads, 1, 1)             # refuse a bad value before any work
     if m.ndim == 0 or a.ndim != 1 or m.shape[-1] == 0 or a.shape[0] != m.shape[-1]:
-        mp = mass_properties(m, a)
-        r = env.assess(mp.cg.x, mp.mass)
-        shape = np.shape(mp.mass)
-        return SweepResult(np.asarray(mp.mass).reshape(shape), np.asarray(mp.cg.x).reshape(shape),
-                           np.asarray(r.inside).reshape(shape), np.asarray(r.margin).reshape(shape))
+        return _sweep_general(m, a, env)
     if not np.all(np.isfinite(a)):
         mass_properties(m, a)             # raises for the first non-finite arm
     shape = m.shape[:-1]
@@ -169,3 +165,14 @@ def sweep_cases(masses, arms, polygon, *, tol=None, threads=None) -> SweepResult
     env._fix(cg, mass, inside, margin, near)
     return SweepResult(mass.reshape(shape), cg.reshape(shape), inside.reshape(shape),
                        margin.reshape(shape))
+
+
+def _sweep_general(m: np.ndarray, a: np.ndarray, env) -> SweepResult:
+    """Shapes the chunked kernel does not take (arms per case, a single item, no items):
+    :func:`mass_properties` and the prepared envelope's ``assess``, whose errors name the
+    field."""
+    mp = mass_properties(m, a)
+    r = env.assess(mp.cg.x, mp.mass)
+    shape = np.shape(mp.mass)
+    return SweepResult(np.asarray(mp.mass).reshape(shape), np.asarray(mp.cg.x).reshape(shape),
+                       np.asarray(r.inside).reshape(shape), np.asarray(r.margin).reshape(shape))

@@ -21,6 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ledger.core._common import finite_float
 from ledger.errors import InputError, MassPropertiesError
 
 __all__ = [
@@ -167,13 +168,7 @@ def _vector(value, n: int | None, field: str, names: Sequence[str] | None = None
 
 
 def _finite(value, field: str, allowed: str) -> float:
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        raise MassPropertiesError(field, value, allowed) from None
-    if not math.isfinite(v):
-        raise MassPropertiesError(field, v, allowed)
-    return v
+    return finite_float(value, field, allowed, MassPropertiesError)
 
 
 def _needed_arm(value, field: str, because: str) -> float:
@@ -233,6 +228,46 @@ def empty_weight_from_scales(readings, tares, x, y=None, *, points: Sequence[str
     >>> round(r.mass, 1), round(r.cg_x, 4)
     (940.0, 2.9757)
     """
+    names, rd, net, xs, ys = _net_reactions(readings, tares, x, y, points)
+    n = len(names)
+    w0 = float(net.sum())
+    if w0 <= 0:
+        raise MassPropertiesError("readings", rd.tolist(),
+                                  "net readings whose total is greater than 0 kg")
+    mx0 = float(net @ xs)
+    my0 = None if ys is None else float(net @ ys)
+    zc = None if z_cg is None else _finite(z_cg, "z_cg", "a finite vertical CG in m")
+
+    lines = [BreakdownLine(f"net at {names[i]}", float(net[i]), float(net[i] * xs[i]),
+                           None if ys is None else float(net[i] * ys[i]),
+                           None if zc is None else float(net[i] * zc))
+             for i in range(n)]
+    mass, mx = w0, mx0
+    my = my0
+    mz = None if zc is None else w0 * zc
+    for j, c in enumerate(corrections):
+        line = _correction_line(c, j, with_y=my is not None, with_z=mz is not None)
+        if my is not None and line.moment_y is not None:
+            my += line.moment_y
+        if mz is not None and line.moment_z is not None:
+            mz += line.moment_z
+        mass += line.mass
+        mx += line.moment_x
+        lines.append(line)
+    if mass <= 0:
+        raise MassPropertiesError("corrections", [c.label for c in corrections],
+                                  f"corrections that leave more than 0 kg (they leave {mass:g} kg)")
+    return WeighingResult(
+        points=names, net=net, weighed_mass=w0, weighed_moment_x=mx0, weighed_moment_y=my0,
+        weighed_cg_x=mx0 / w0, weighed_cg_y=None if my0 is None else my0 / w0,
+        mass=mass, moment_x=mx, moment_y=my, moment_z=mz, cg_x=mx / mass,
+        cg_y=None if my is None else my / mass, cg_z=None if mz is None else mz / mass,
+        breakdown=tuple(lines))
+
+
+def _net_reactions(readings, tares, x, y, points):
+    """The weighing points' names, readings, net reactions (reading − tare, 0 or more) and
+    arms, checked one per point."""
     try:
         n = int(np.asarray(readings, dtype=object).reshape(-1).size)
     except (TypeError, ValueError):  # pragma: no cover - numpy accepts any object here
@@ -254,50 +289,26 @@ def empty_weight_from_scales(readings, tares, x, y=None, *, points: Sequence[str
                 f"net reaction at {names[i]!r}", float(net[i]),
                 f"a net reading of 0 kg or more (reading {rd[i]:g} − tare {tr[i]:g})",
                 hint="Check the tare and the scale zero")
-    w0 = float(net.sum())
-    if w0 <= 0:
-        raise MassPropertiesError("readings", rd.tolist(),
-                                  "net readings whose total is greater than 0 kg")
-    mx0 = float(net @ xs)
-    my0 = None if ys is None else float(net @ ys)
-    zc = None if z_cg is None else _finite(z_cg, "z_cg", "a finite vertical CG in m")
+    return names, rd, net, xs, ys
 
-    lines = [BreakdownLine(f"net at {names[i]}", float(net[i]), float(net[i] * xs[i]),
-                           None if ys is None else float(net[i] * ys[i]),
-                           None if zc is None else float(net[i] * zc))
-             for i in range(n)]
-    mass, mx = w0, mx0
-    my = my0
-    mz = None if zc is None else w0 * zc
-    for j, c in enumerate(corrections):
-        field = f"corrections[{j}]" + (f" ({c.label!r})" if c.label else "")
-        cm = _finite(c.mass, f"{field}.mass", "a finite mass of 0 kg or more")
-        if cm < 0:
-            raise MassPropertiesError(f"{field}.mass", cm,
-                                      "a mass of 0 kg or more (use sign=-1 to remove an item)")
-        if c.sign not in (1, -1):
-            raise MassPropertiesError(f"{field}.sign", c.sign, "+1 (add) or -1 (remove)")
-        cx = _finite(c.x, f"{field}.x", "a finite arm in m")
-        dm = c.sign * cm
-        line_y = line_z = None
-        if my is not None:
-            line_y = dm * _needed_arm(c.y, f"{field}.y", "the weighing points have one")
-            my += line_y
-        if mz is not None:
-            line_z = dm * _needed_arm(c.z, f"{field}.z", "z_cg was given")
-            mz += line_z
-        mass += dm
-        mx += dm * cx
-        lines.append(BreakdownLine(c.label, dm, dm * cx, line_y, line_z))
-    if mass <= 0:
-        raise MassPropertiesError("corrections", [c.label for c in corrections],
-                                  f"corrections that leave more than 0 kg (they leave {mass:g} kg)")
-    return WeighingResult(
-        points=names, net=net, weighed_mass=w0, weighed_moment_x=mx0, weighed_moment_y=my0,
-        weighed_cg_x=mx0 / w0, weighed_cg_y=None if my0 is None else my0 / w0,
-        mass=mass, moment_x=mx, moment_y=my, moment_z=mz, cg_x=mx / mass,
-        cg_y=None if my is None else my / mass, cg_z=None if mz is None else mz / mass,
-        breakdown=tuple(lines))
+
+def _correction_line(c: Correction, j: int, *, with_y: bool, with_z: bool) -> BreakdownLine:
+    """One correction, checked, as its line of the breakdown (signed mass and moments)."""
+    field = f"corrections[{j}]" + (f" ({c.label!r})" if c.label else "")
+    cm = _finite(c.mass, f"{field}.mass", "a finite mass of 0 kg or more")
+    if cm < 0:
+        raise MassPropertiesError(f"{field}.mass", cm,
+                                  "a mass of 0 kg or more (use sign=-1 to remove an item)")
+    if c.sign not in (1, -1):
+        raise MassPropertiesError(f"{field}.sign", c.sign, "+1 (add) or -1 (remove)")
+    cx = _finite(c.x, f"{field}.x", "a finite arm in m")
+    dm = c.sign * cm
+    line_y = line_z = None
+    if with_y:
+        line_y = dm * _needed_arm(c.y, f"{field}.y", "the weighing points have one")
+    if with_z:
+        line_z = dm * _needed_arm(c.z, f"{field}.z", "z_cg was given")
+    return BreakdownLine(c.label, dm, dm * cx, line_y, line_z)
 
 
 @dataclass(frozen=True)

@@ -106,9 +106,9 @@ def compare_plans(original, amended, tolerances) -> AmendmentCheck:
     seats_a = _by(original.persons, lambda p: p.seat, lambda p: p.mass_kg)
     seats_b = _by(amended.persons, lambda p: p.seat, lambda p: p.mass_kg)
     for seat in sorted(set(seats_a) | set(seats_b)):
-        ma, mb = seats_a.get(seat, []), seats_b.get(seat, [])
-        if sorted(ma) != sorted(mb):
-            changes.append(Change("seat", seat, math.fsum(ma), math.fsum(mb), len(ma), len(mb)))
+        la, lb = seats_a.get(seat, []), seats_b.get(seat, [])
+        if sorted(la) != sorted(lb):
+            changes.append(Change("seat", seat, math.fsum(la), math.fsum(lb), len(la), len(lb)))
     st_a = _by(original.cargo, lambda c: c.station, lambda c: c.mass_kg)
     st_b = _by(amended.cargo, lambda c: c.station, lambda c: c.mass_kg)
     for st in sorted(set(st_a) | set(st_b)):

@@ -11,17 +11,39 @@ and the sheet carries :data:`ledger.caution.GROUND_CAUTION` with them.
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
+from typing import TYPE_CHECKING, Any, NamedTuple, cast
 
 import numpy as np
 
 from ledger.caution import GROUND_CAUTION
-from ledger.errors import InputError, PlanError, TypeDataError
+from ledger.core.ground import (
+    ADVISORY,
+    AxleLoads,
+    RuleSet,
+    axle_loads,
+    check_axle_groups,
+    check_axle_ratings,
+)
+from ledger.errors import InputError, LedgerError, PlanError, TypeDataError
+from ledger.loadsheet.document import (
+    AxleFinding,
+    AxleRow,
+    AxleRuleSetDoc,
+    PhaseDoc,
+    Violation,
+)
 from ledger.loadsheet.text import excess_text, mass_text, phase_title
+from ledger.rules import load_rule_set
+
+if TYPE_CHECKING:
+    from ledger.typedata.model import Axle, VehicleType
 
 __all__ = ["supports", "axle_checks"]
 
 
-def supports(vtype):
+def supports(vtype: VehicleType,
+             ) -> tuple[list[Axle], list[list[int]] | None, list[list[float]] | None]:
     """(axles sorted front to rear, groups for ``axle_loads`` or None, shares or None).
 
     Axles of one axle group form one support; the others are one support each. A rigid vehicle
@@ -59,8 +81,96 @@ def supports(vtype):
     return axles, units, shares
 
 
-def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
-                violations: list, rules=None):
+class _Supports(NamedTuple):
+    """The type's axles front to rear, as :func:`ledger.core.ground.axle_loads` takes them."""
+
+    axles: list[Axle]
+    x: np.ndarray
+    groups: list[list[int]] | None
+    shares: list[list[float]] | None
+    ratings: np.ndarray
+    track: list[float] | None
+
+
+def _supports_of(vtype: VehicleType) -> _Supports:
+    axles, groups, shares = supports(vtype)
+    tracks = [a.track_m for a in axles]
+    return _Supports(axles, np.array([a.x_m for a in axles]), groups, shares,
+                     np.array([a.rating_kg if a.rating_kg is not None else math.nan
+                               for a in axles]),
+                     [t for t in tracks if t is not None] if all(t is not None for t in tracks)
+                     else None)
+
+
+def _rule_set(rule_name: str | None, rules: RuleSet | None) -> RuleSet | None:
+    """The rule set given, or the one ``rule_name`` names (an error on the plan's field)."""
+    if rules is None and rule_name is not None:
+        try:
+            rules = load_rule_set(rule_name).rule_set()
+        except LedgerError as exc:  # re-located on the plan field
+            raise PlanError("axle_rules", rule_name, getattr(exc, "allowed", str(exc))) \
+                from None
+    return rules
+
+
+def _phase_loads(sup: _Supports, phase: PhaseDoc, mass: float) -> AxleLoads:
+    cg = phase["cg_m"]
+    try:
+        return axle_loads(mass, cast(float, cg["x"]), sup.x, cg_y=cg["y"] or 0.0, track=sup.track,
+                          groups=sup.groups, shares=sup.shares)
+    except InputError as exc:
+        raise PlanError("plan", phase_title(phase["name"]),
+                        f"a load the vehicle can stand on ({exc})",
+                        hint="The CG lies outside the axles or the track; "
+                             "redistribute the load") from None
+
+
+def _axle_rows(vtype: VehicleType, sup: _Supports, name: str, loads: AxleLoads,
+               violations: list[Violation]) -> list[AxleRow]:
+    """One phase's load on each axle against its rating, and on each rated axle group."""
+    du = vtype.units
+    check = check_axle_ratings(loads.axle, sup.ratings)
+    rows: list[AxleRow] = []
+    for i, a in enumerate(sup.axles):
+        margin = None if math.isnan(check.margin[i]) else float(check.margin[i])
+        ok = not bool(check.over[i])
+        rows.append({"phase": name, "name": a.name, "x_m": a.x_m,
+                     "load_kg": float(loads.axle[i]), "rating_kg": a.rating_kg,
+                     "margin_kg": margin,
+                     "left_kg": None if loads.left is None else float(loads.left[i]),
+                     "right_kg": None if loads.right is None else float(loads.right[i]),
+                     "in_limits": ok})
+        if not ok:
+            assert margin is not None  # an axle over its rating has one
+            violations.append({
+                "code": "axle", "phase": name, "axle": a.name,
+                "subject": f"axle '{a.name}'", "limit": a.rating_kg,
+                "actual": float(loads.axle[i]), "excess": -margin, "unit": "kg",
+                "message": f"{phase_title(name)} load on axle '{a.name}' "
+                           f"{mass_text(loads.axle[i], du)} is over its rating "
+                           f"{mass_text(a.rating_kg, du)} by "
+                           f"{excess_text(mass_text, -margin, du)}"})
+    for g in vtype.axle_groups:
+        if g.rating_kg is None:
+            continue
+        idx = [i for i, a in enumerate(sup.axles) if a.name in g.axles]
+        load = float(loads.axle[idx].sum())
+        if load > g.rating_kg * (1 + 1e-9):
+            violations.append({
+                "code": "axle", "phase": name, "axle": g.name,
+                "subject": f"axle group '{g.name}'", "limit": g.rating_kg, "actual": load,
+                "excess": load - g.rating_kg, "unit": "kg",
+                "message": f"{phase_title(name)} load on axle group '{g.name}' "
+                           f"{mass_text(load, du)} is over its rating "
+                           f"{mass_text(g.rating_kg, du)} by "
+                           f"{excess_text(mass_text, load - g.rating_kg, du)}"})
+    return rows
+
+
+def axle_checks(vtype: VehicleType, phases: list[PhaseDoc], states: Mapping[str, Any],
+                rule_name: str | None, violations: list[Violation], rules: RuleSet | None = None,
+                ) -> tuple[list[AxleRow] | None, list[AxleFinding] | None,
+                           AxleRuleSetDoc | None]:
     """Axle loads per phase (added to each phase as ``axles``), violations, advisories.
 
     ``rules`` is a :class:`ledger.core.ground.RuleSet`; without it a ``rule_name`` is looked up
@@ -72,96 +182,34 @@ def axle_checks(vtype, phases: list, states: dict, rule_name: str | None,
         The departure axle rows (the document's ``axles``), the advisory findings
         (``axle_rules``) and the rule set description (``axle_rule_set``).
     """
-    from ledger.core.ground import (
-        ADVISORY,
-        axle_loads,
-        check_axle_groups,
-        check_axle_ratings,
-    )
-
-    du = vtype.units
-    axles, groups, shares = supports(vtype)
-    ax = np.array([a.x_m for a in axles])
-    ratings = np.array([a.rating_kg if a.rating_kg is not None else math.nan for a in axles])
-    tracks = [a.track_m for a in axles]
-    track = tracks if all(t is not None for t in tracks) else None
-    if rules is None and rule_name is not None:
-        from ledger.errors import LedgerError
-        from ledger.rules import load_rule_set
-
-        try:
-            rules = load_rule_set(rule_name).rule_set()
-        except LedgerError as exc:  # re-located on the plan field
-            raise PlanError("axle_rules", rule_name, getattr(exc, "allowed", str(exc))) \
-                from None
+    sup = _supports_of(vtype)
+    rules = _rule_set(rule_name, rules)
     top_rows = None
-    reported: set = set()
-    findings_out: list[dict] | None = [] if rules is not None else None
+    reported: set[tuple[str, tuple[int, ...]]] = set()
+    findings: list[AxleFinding] = []
     for phase in phases:
         name = phase["name"]
-        st = states[name]
-        cg = phase["cg_m"]
-        try:
-            loads = axle_loads(st.mass, cg["x"], ax, cg_y=cg["y"] or 0.0, track=track,
-                               groups=groups, shares=shares)
-        except InputError as exc:
-            raise PlanError("plan", phase_title(name),
-                            f"a load the vehicle can stand on ({exc})",
-                            hint="The CG lies outside the axles or the track; "
-                                 "redistribute the load") from None
-        check = check_axle_ratings(loads.axle, ratings)
-        rows = []
-        for i, a in enumerate(axles):
-            margin = None if math.isnan(check.margin[i]) else float(check.margin[i])
-            ok = not bool(check.over[i])
-            rows.append({"phase": name, "name": a.name, "x_m": a.x_m,
-                         "load_kg": float(loads.axle[i]), "rating_kg": a.rating_kg,
-                         "margin_kg": margin,
-                         "left_kg": None if loads.left is None else float(loads.left[i]),
-                         "right_kg": None if loads.right is None else float(loads.right[i]),
-                         "in_limits": ok})
-            if not ok:
-                violations.append({
-                    "code": "axle", "phase": name, "axle": a.name,
-                    "subject": f"axle '{a.name}'", "limit": a.rating_kg,
-                    "actual": float(loads.axle[i]), "excess": -margin, "unit": "kg",
-                    "message": f"{phase_title(name)} load on axle '{a.name}' "
-                               f"{mass_text(loads.axle[i], du)} is over its rating "
-                               f"{mass_text(a.rating_kg, du)} by "
-                               f"{excess_text(mass_text, -margin, du)}"})
-        for g in vtype.axle_groups:
-            if g.rating_kg is None:
-                continue
-            idx = [i for i, a in enumerate(axles) if a.name in g.axles]
-            load = float(loads.axle[idx].sum())
-            if load > g.rating_kg * (1 + 1e-9):
-                violations.append({
-                    "code": "axle", "phase": name, "axle": g.name,
-                    "subject": f"axle group '{g.name}'", "limit": g.rating_kg, "actual": load,
-                    "excess": load - g.rating_kg, "unit": "kg",
-                    "message": f"{phase_title(name)} load on axle group '{g.name}' "
-                               f"{mass_text(load, du)} is over its rating "
-                               f"{mass_text(g.rating_kg, du)} by "
-                               f"{excess_text(mass_text, load - g.rating_kg, du)}"})
+        loads = _phase_loads(sup, phase, states[name].mass)
+        rows = _axle_rows(vtype, sup, name, loads, violations)
         phase["axles"] = rows
         phase["in_limits"] = phase["in_limits"] and all(r["in_limits"] for r in rows) and \
             not any(v.get("phase") == name for v in violations)
         if top_rows is None:
             top_rows = rows
         if rules is not None:
-            for f in check_axle_groups(rules, ax, loads.axle):
+            for f in check_axle_groups(rules, sup.x, loads.axle):
                 key = (f.rule, tuple(f.axles))
                 if name != phases[0]["name"] and (f.ok or key in reported):
                     continue  # later phases add only what is newly over
                 if not f.ok:
                     reported.add(key)
-                findings_out.append({
+                findings.append({
                     "phase": name, "rule": f.rule, "axles": list(f.axles),
-                    "axle_names": [axles[i].name for i in f.axles], "load_kg": f.load,
+                    "axle_names": [sup.axles[i].name for i in f.axles], "load_kg": f.load,
                     "limit_kg": f.limit, "margin_kg": f.margin, "ok": bool(f.ok),
                     "detail": f.detail, "text": f.text})
-    rule_doc = None
-    if rules is not None:
-        rule_doc = {"key": rule_name, "name": rules.name, "source": rules.source,
-                    "advisory": ADVISORY, "caution": GROUND_CAUTION}
-    return top_rows, findings_out, rule_doc
+    if rules is None:
+        return top_rows, None, None
+    rule_doc: AxleRuleSetDoc = {"key": rule_name, "name": rules.name, "source": rules.source,
+                                "advisory": ADVISORY, "caution": GROUND_CAUTION}
+    return top_rows, findings, rule_doc

@@ -2,26 +2,27 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
+from ledger.loadsheet.document import PHASE_TITLES, phase_title
 from ledger.units import DisplayUnits, display_decimals, nonzero_excess, to_unit
 
-__all__ = ["mass_text", "length_text", "volume_text", "excess_text",
-           "phase_title", "PHASE_TITLES"]
+__all__ = ["mass_text", "length_text", "volume_text", "excess_text", "volume_decimals",
+           "phase_title", "PHASE_TITLES", "VOLUME_DECIMALS"]
 
-PHASE_TITLES = {"zero_fuel": "Zero-fuel", "ramp": "Ramp", "takeoff": "Take-off",
-                "landing": "Landing", "departure": "Departure", "arrival": "Arrival"}
-
-_VOLUME_DECIMALS = {"USgal": 1, "impgal": 1, "L": 1, "m3": 3, "ft3": 2, "in3": 0}
+#: Decimals a volume shows in each display unit (messages and the renderers' columns).
+VOLUME_DECIMALS = {"USgal": 1, "impgal": 1, "L": 1, "m3": 3, "ft3": 2, "in3": 0}
 
 
-def phase_title(name: str) -> str:
-    """``"takeoff"`` → ``"Take-off"``.
+def volume_decimals(unit: str) -> int:
+    """Decimals to show a volume in ``unit`` with (one for a unit not listed).
 
     Examples
     --------
-    >>> phase_title("zero_fuel"), phase_title("arrival")
-    ('Zero-fuel', 'Arrival')
+    >>> volume_decimals("m3"), volume_decimals("USgal"), volume_decimals("bbl")
+    (3, 1, 1)
     """
-    return PHASE_TITLES.get(name, name.replace("_", " ").capitalize())
+    return VOLUME_DECIMALS.get(unit, 1)
 
 
 def _fixed(v: float, d: int) -> str:
@@ -66,10 +67,11 @@ def volume_text(m3: float, du: DisplayUnits) -> str:
     '25.0 USgal'
     """
     v = to_unit(m3, du.volume)
-    return f"{_fixed(v, _VOLUME_DECIMALS.get(du.volume, 1))} {du.volume}"
+    return f"{_fixed(v, volume_decimals(du.volume))} {du.volume}"
 
 
-def excess_text(show, amount: float, du: DisplayUnits) -> str:
+def excess_text(show: Callable[[float, DisplayUnits], str], amount: float,
+                du: DisplayUnits) -> str:
     """By how much a limit is exceeded, as ``show`` (:func:`mass_text`, :func:`length_text` or
     :func:`volume_text`) writes it, but never as zero (:func:`ledger.units.nonzero_excess`).
 

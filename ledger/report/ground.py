@@ -10,8 +10,13 @@ typed), percentages to two decimals. At ``width=80`` no line is wider than 80 co
 from __future__ import annotations
 
 import io
+from collections.abc import Mapping
+from typing import TYPE_CHECKING, Any
 
 from ledger.units import to_unit
+
+if TYPE_CHECKING:
+    from ledger.analysis.ground_types import CgHeightDocument, CornersDocument, RuleSetDocument
 
 __all__ = ["render_corners", "render_cg_height", "render_rule_list", "render_rule_set",
            "as_text", "simple_table"]
@@ -20,7 +25,7 @@ _MASS_DEC = {"kg": 1, "lb": 0, "g": 0, "t": 3, "slug": 2}
 _LEN_DEC = {"m": 3, "mm": 0, "cm": 1, "in": 2, "ft": 3}
 
 
-def _units(doc: dict) -> tuple[str, str]:
+def _units(doc: Mapping[str, Any]) -> tuple[str, str]:
     u = doc.get("units") or {}
     return u.get("mass", "kg"), u.get("length", "m")
 
@@ -82,7 +87,7 @@ def _title(console, text: str, w: int) -> None:
                   width=w)
 
 
-def _vehicle_line(doc: dict) -> str | None:
+def _vehicle_line(doc: Mapping[str, Any]) -> str | None:
     v = doc.get("vehicle")
     if not v:
         return None
@@ -90,7 +95,7 @@ def _vehicle_line(doc: dict) -> str | None:
                                 else None) if x)
 
 
-def render_corners(doc: dict, console=None, width: int = 80) -> None:
+def render_corners(doc: CornersDocument, console: Any = None, width: int = 80) -> None:
     """Print a ``wbledger.corners/1`` document."""
     from rich.text import Text
 
@@ -133,7 +138,7 @@ def render_corners(doc: dict, console=None, width: int = 80) -> None:
     console.print(Text(doc["caution"], style="italic"), width=w, overflow="fold")
 
 
-def render_cg_height(doc: dict, console=None, width: int = 80) -> None:
+def render_cg_height(doc: CgHeightDocument, console: Any = None, width: int = 80) -> None:
     """Print a ``wbledger.cg-height/1`` document (and whether it was stored)."""
     from rich.text import Text
 
@@ -192,7 +197,7 @@ def render_rule_list(rows: list[dict], console=None, width: int = 80) -> None:
     console.print(Text(GROUND_CAUTION, style="italic"), width=w, overflow="fold")
 
 
-def render_rule_set(doc: dict, console=None, width: int = 80) -> None:
+def render_rule_set(doc: RuleSetDocument, console: Any = None, width: int = 80) -> None:
     """Print one rule set, with its bridge table if the document has one."""
     from rich.text import Text
 

@@ -40,8 +40,13 @@ import csv
 import io
 import math
 from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
 from ledger.files import write_output
+from ledger.report.ground import simple_table as table
+
+if TYPE_CHECKING:
+    from ledger.analysis.inertia_types import InertiaDocument
 
 __all__ = ["CSV_LAYOUTS", "csv_quantities", "inertia_csv", "write_inertia_csv",
            "render_inertia", "inertia_text"]
@@ -52,7 +57,7 @@ _BODY = "body (x fwd, y right, z down) at loaded CG"
 _DATUM = "datum (x aft, y right, z up)"
 
 
-def csv_quantities(doc: dict) -> list[tuple[str, object, str, str, str]]:
+def csv_quantities(doc: InertiaDocument) -> list[tuple[str, object, str, str, str]]:
     """(quantity, value, unit, axes, note) rows of an inertia document, in CSV order.
 
     Examples
@@ -112,7 +117,7 @@ def _fmt(value) -> str:
     return str(value)
 
 
-def inertia_csv(doc: dict, layout: str = "long") -> str:
+def inertia_csv(doc: InertiaDocument, layout: str = "long") -> str:
     """The CSV text of an inertia document (see the module notes for the columns).
 
     Examples
@@ -142,7 +147,7 @@ def inertia_csv(doc: dict, layout: str = "long") -> str:
     return buf.getvalue()
 
 
-def write_inertia_csv(doc: dict, path: str | Path, layout: str = "long") -> Path:
+def write_inertia_csv(doc: InertiaDocument, path: str | Path, layout: str = "long") -> Path:
     """Write :func:`inertia_csv` to ``path`` (UTF-8, mode 0600, replaced in one step; see
     :mod:`ledger.files`); returns the path."""
     return write_output(path, inertia_csv(doc, layout), "--csv")
@@ -165,37 +170,65 @@ def _g(v: float, digits: int = 5) -> str:
 
 
 _GROUP_SHORT = {"empty vehicle": "empty", "configuration": "config", "equipment": "equip."}
+
+
 def _f(v: float, decimals: int) -> str:
     text = f"{v:.{decimals}f}"
     return text.lstrip("-") if float(text) == 0.0 else text
 
 
-def render_inertia(doc: dict, console=None, width: int = 80) -> None:
+class _Screen:
+    """Where the report prints: the console, its width, and a section heading."""
+
+    def __init__(self, console: Any, width: int) -> None:
+        self.console = console
+        self.w = width
+
+    def out(self, *a: Any, **kw: Any) -> None:
+        kw.setdefault("width", self.w)
+        self.console.print(*a, **kw)
+
+    def section(self, title: str) -> None:
+        from rich.rule import Rule
+        from rich.text import Text
+
+        self.console.print()
+        self.console.print(Rule(Text(f" {title.upper()} ", style="bold"), align="left",
+                                characters="\u2500"), width=self.w)
+
+
+def render_inertia(doc: InertiaDocument, console: Any = None, width: int = 80) -> None:
     """Print an inertia document in the terminal, at most ``width`` (≥ 60) columns wide."""
     from rich import box
     from rich.console import Console
     from rich.panel import Panel
-    from rich.rule import Rule
-    from rich.table import Table
     from rich.text import Text
 
     if console is None:
         console = Console(width=width, highlight=False)
-    w = max(60, min(width, console.width))
+    screen = _Screen(console, max(60, min(width, console.width)))
+    _heading(screen, doc)
+    _mass_and_cg(screen, doc)
+    _moments(screen, doc)
+    _principal_axes(screen, doc)
+    _contributions(screen, doc)
+    _items(screen, doc)
+    for wline in doc.get("warnings", []):
+        screen.out(Text(f"Warning: {wline}", style="yellow"), overflow="fold")
+    console.print()
+    screen.out(Panel(Text(doc["caution"], style="bold"), box=box.HEAVY, border_style="yellow",
+                     width=screen.w))
 
-    def out(*a, **kw):
-        kw.setdefault("width", w)
-        console.print(*a, **kw)
 
-    def section(title: str) -> None:
-        console.print()
-        console.print(Rule(Text(f" {title.upper()} ", style="bold"), align="left",
-                           characters="\u2500"), width=w)
+def _heading(screen: _Screen, doc: InertiaDocument) -> None:
+    """The panel: vehicle, condition, empty weight, where the empty inertia comes from, axes."""
+    from rich import box
+    from rich.panel import Panel
+    from rich.table import Table
+    from rich.text import Text
 
-    from ledger.report.ground import simple_table as table
-
-    v = doc.get("vehicle") or {}
-    c = doc.get("condition") or {}
+    v: Any = doc.get("vehicle") or {}
+    c: Any = doc.get("condition") or {}
     ei = doc["empty_inertia"]
     head = Table.grid(padding=(0, 2))
     head.add_column(style="bold", no_wrap=True)
@@ -216,54 +249,78 @@ def render_inertia(doc: dict, console=None, width: int = 80) -> None:
     head.add_row("Empty inertia", src)
     head.add_row("Axes", doc["axes"]["statement"])
     head.add_row("Products", doc["axes"]["products"])
-    out(Panel(head, title=Text("Loaded inertia", style="bold"), title_align="left",
-              box=box.HEAVY, width=w))
+    screen.out(Panel(head, title=Text("Loaded inertia", style="bold"), title_align="left",
+                     box=box.HEAVY, width=screen.w))
 
-    section("Mass and CG")
+
+def _mass_and_cg(screen: _Screen, doc: InertiaDocument) -> None:
+    screen.section("Mass and CG")
     cg = doc["cg_m"]
-    out(table(["", "value", "unit", "axes"],
-              [["mass", _g(doc["mass_kg"], 6), "kg", ""],
-               ["CG x", _f(cg["x"], 4), "m", "datum, + aft"],
-               ["CG y", _f(cg["y"], 4), "m", "datum, + right"],
-               ["CG z", _f(cg["z"], 4), "m", "datum, + up"]], numeric=(1,)))
+    screen.out(table(["", "value", "unit", "axes"],
+                     [["mass", _g(doc["mass_kg"], 6), "kg", ""],
+                      ["CG x", _f(cg["x"], 4), "m", "datum, + aft"],
+                      ["CG y", _f(cg["y"], 4), "m", "datum, + right"],
+                      ["CG z", _f(cg["z"], 4), "m", "datum, + up"]], numeric=(1,)))
 
-    section("Moments and products (body axes, about the loaded CG)")
+
+def _moments(screen: _Screen, doc: InertiaDocument) -> None:
+    """Moments, products and radii of gyration, then the tensor."""
+    from rich.text import Text
+
+    screen.section("Moments and products (body axes, about the loaded CG)")
     m = doc["moments_kgm2"]
     p = doc["products_kgm2"]
     k = doc["radii_of_gyration_m"]
-    out(table(["", "kg·m²", "", "k (m)"],
-              [["Ixx roll", _g(m["Ixx"]), "", _g(k["kx"], 4)],
-               ["Iyy pitch", _g(m["Iyy"]), "", _g(k["ky"], 4)],
-               ["Izz yaw", _g(m["Izz"]), "", _g(k["kz"], 4)],
-               ["Ixy = Σm·x·y", _g(p["Ixy"]), "product", ""],
-               ["Ixz = Σm·x·z", _g(p["Ixz"]), "product", ""],
-               ["Iyz = Σm·y·z", _g(p["Iyz"]), "product", ""]], numeric=(1, 3)))
+    screen.out(table(["", "kg·m²", "", "k (m)"],
+                     [["Ixx roll", _g(m["Ixx"]), "", _g(k["kx"], 4)],
+                      ["Iyy pitch", _g(m["Iyy"]), "", _g(k["ky"], 4)],
+                      ["Izz yaw", _g(m["Izz"]), "", _g(k["kz"], 4)],
+                      ["Ixy = Σm·x·y", _g(p["Ixy"]), "product", ""],
+                      ["Ixz = Σm·x·z", _g(p["Ixz"]), "product", ""],
+                      ["Iyz = Σm·y·z", _g(p["Iyz"]), "product", ""]], numeric=(1, 3)))
     t = doc["tensor_kgm2"]["rows"]
-    out(Text("Inertia tensor (kg·m², body axes; off-diagonal = −product):"), overflow="fold")
-    out(table(["", "x", "y", "z"],
-              [[a] + [_g(val) for val in row] for a, row in zip("xyz", t)],
-              numeric=(1, 2, 3)))
+    screen.out(Text("Inertia tensor (kg·m², body axes; off-diagonal = −product):"),
+               overflow="fold")
+    screen.out(table(["", "x", "y", "z"],
+                     [[a] + [_g(val) for val in row] for a, row in zip("xyz", t)],
+                     numeric=(1, 2, 3)))
 
-    section("Principal axes (body axes)")
+
+def _principal_axes(screen: _Screen, doc: InertiaDocument) -> None:
+    from rich.text import Text
+
+    screen.section("Principal axes (body axes)")
     rows = []
     for n, a in enumerate(doc["principal"]["axes"], 1):
         rows.append([f"I{n}", _g(a["moment_kgm2"])] + [f"{x:+.4f}" for x in a["axis_body"]])
-    out(table(["", "kg·m²", "axis x", "axis y", "axis z"], rows, numeric=(1, 2, 3, 4)))
+    screen.out(table(["", "kg·m²", "axis x", "axis y", "axis z"], rows, numeric=(1, 2, 3, 4)))
     inc = doc["inclination"]
-    out(Text(f"Inclination of the principal x axis: ε = {_f(inc['deg'], 2)}° "
-             "(from x_b toward z_b; positive nose-down)."), overflow="fold")
+    screen.out(Text(f"Inclination of the principal x axis: ε = {_f(inc['deg'], 2)}° "
+                    "(from x_b toward z_b; positive nose-down)."), overflow="fold")
 
-    section("Largest contributions")
+
+def _contributions(screen: _Screen, doc: InertiaDocument) -> None:
+    """The five largest shares of each moment."""
+    from rich.text import Text
+
+    screen.section("Largest contributions")
     groups = doc["ranking"]
     for name, label in (("Ixx", "Ixx roll"), ("Iyy", "Iyy pitch"), ("Izz", "Izz yaw")):
         top = groups[name][:5]
         rows = [[r["item"], _g(r["kgm2"]),
                  "" if r["percent"] is None else f"{r['percent']:.1f} %"] for r in top]
-        out(table([label, "kg·m²", "share"], rows, numeric=(1, 2)))
-    out(Text("Each item's share is its own inertia plus its parallel-axis part about the "
-             "loaded CG; the shares add up to the total.", style="dim"), overflow="fold")
+        screen.out(table([label, "kg·m²", "share"], rows, numeric=(1, 2)))
+    screen.out(Text("Each item's share is its own inertia plus its parallel-axis part about "
+                    "the loaded CG; the shares add up to the total.", style="dim"),
+               overflow="fold")
 
-    section(f"Items ({len(doc['items'])})")
+
+def _items(screen: _Screen, doc: InertiaDocument) -> None:
+    """Every item with its arms and where its own inertia comes from; then the shapes."""
+    from rich.table import Table
+    from rich.text import Text
+
+    screen.section(f"Items ({len(doc['items'])})")
     rows, shaped = [], []
     for it in doc["items"]:
         z = _f(it["z_m"], 3) + ("*" if it.get("z_assumed") else "")
@@ -273,29 +330,25 @@ def render_inertia(doc: dict, console=None, width: int = 80) -> None:
         rows.append([it["name"], _GROUP_SHORT.get(it["group"], it["group"]),
                      _g(it["mass_kg"], 4), _f(it["x_m"], 3), _f(it["y_m"], 3), z,
                      {"point mass": "point"}.get(own, own)])
-    out(table(["item", "group", "kg", "x m", "y m", "z m", "own"], rows,
-              numeric=(2, 3, 4, 5)))
-    out(Text("Arms in datum axes (x aft, y right, z up). own: where the item's own inertia "
-             "about its CG comes from (point: none).", style="dim"), overflow="fold")
+    screen.out(table(["item", "group", "kg", "x m", "y m", "z m", "own"], rows,
+                     numeric=(2, 3, 4, 5)))
+    screen.out(Text("Arms in datum axes (x aft, y right, z up). own: where the item's own "
+                    "inertia about its CG comes from (point: none).", style="dim"),
+               overflow="fold")
     if shaped:
-        out(Text("Shapes (dimensions in m; box length along x, width y, height z):"),
-            overflow="fold")
+        screen.out(Text("Shapes (dimensions in m; box length along x, width y, height z):"),
+                   overflow="fold")
         grid = Table.grid(padding=(0, 1))
         grid.add_column(no_wrap=True)
         grid.add_column(overflow="fold")
         for it in shaped:
             grid.add_row(f"  {it['name']}:", it["shape_text"])
-        out(grid)
+        screen.out(grid)
     if any(it.get("z_assumed") for it in doc["items"]):
-        out(Text("* vertical arm assumed (--assume-z)", style="dim"))
-    for wline in doc.get("warnings", []):
-        out(Text(f"Warning: {wline}", style="yellow"), overflow="fold")
-    console.print()
-    out(Panel(Text(doc["caution"], style="bold"), box=box.HEAVY, border_style="yellow",
-              width=w))
+        screen.out(Text("* vertical arm assumed (--assume-z)", style="dim"))
 
 
-def inertia_text(doc: dict, width: int = 80) -> str:
+def inertia_text(doc: InertiaDocument, width: int = 80) -> str:
     """The terminal report as plain text (no colour), ``width`` columns wide."""
     from rich.console import Console
 

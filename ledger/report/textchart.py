@@ -1,4 +1,4 @@
-"""An envelope chart drawn with characters, for the terminal loading sheet.
+r"""An envelope chart drawn with characters, for the terminal loading sheet.
 
 The chart is a pure function of numbers: polygon outlines, labelled points and a path go in,
 a list of strings comes out, so it can be tested without a terminal. It imports nothing heavy.
@@ -6,7 +6,7 @@ a list of strings comes out, so it can be tested without a terminal. It imports 
 What the characters mean
 ------------------------
 ``+``                a polygon vertex
-``-`` ``|`` ``/`` ``\\``   a polygon edge, by its slope on the grid
+``-`` ``|`` ``/`` ``\``   a polygon edge, by its slope on the grid
 ``.``                the path (for example the CG while fuel burns, take-off to landing)
 a letter or digit    a labelled point (a phase CG); it is drawn last, so it shows even where
                      it falls on an edge or a vertex of the outline
@@ -121,7 +121,7 @@ def plot_grid(polygons: Sequence[Sequence[Sequence[float]]],
               path: Sequence[Sequence[float]] = (),
               width: int = 60, height: int = 16, *,
               pad: float = 0.06) -> Grid:
-    """Rasterise envelope outlines, a path and labelled points onto a character grid.
+    r"""Rasterise envelope outlines, a path and labelled points onto a character grid.
 
     Parameters
     ----------
@@ -148,7 +148,7 @@ def plot_grid(polygons: Sequence[Sequence[Sequence[float]]],
     --------
     >>> g = plot_grid([[(0, 0), (4, 0), (4, 4), (0, 4)]], [(4, 2, "E")], width=9, height=5,
     ...               pad=0)
-    >>> print("\\n".join(g.lines()))
+    >>> print("\n".join(g.lines()))
     +-------+
     |       |
     |       E
@@ -223,6 +223,8 @@ def nice_ticks(lo: float, hi: float, count: int = 5) -> list[float]:
     if not (math.isfinite(lo) and math.isfinite(hi)) or hi <= lo or count < 1:
         return [lo]
     raw = (hi - lo) / count
+    if not raw >= 1e-300:  # a subnormal span: log10 of its step would underflow to log10(0)
+        return [lo]
     mag = 10 ** math.floor(math.log10(raw))
     step = next(m * mag for m in (1, 2, 2.5, 5, 10) if m * mag >= raw * 0.999)
     first = math.ceil(lo / step - 1e-9) * step

@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 
 from sqlalchemy.engine import Engine
 
-from ledger.services.sheets import PlanInput, prepare
+from ledger.services.sheets import Document, PlanInput, prepare
 
 __all__ = ["CheckResult", "check"]
 
@@ -22,7 +22,7 @@ __all__ = ["CheckResult", "check"]
 class CheckResult:
     """The sheet document of the checked plan (``docs/sheet-document.md``), not saved."""
 
-    document: dict = field(repr=False)
+    document: Document = field(repr=False)
 
     @property
     def in_limits(self) -> bool:

@@ -9,6 +9,7 @@ document carries the caution; :mod:`ledger.report.inertia` renders it.
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, cast
@@ -129,7 +130,7 @@ def _read_plan(path: Path, registration: str, vtype: VehicleType, config: str | 
 
 
 def _condition(name: str | None, plan: Path | None, phase: str | None, vtype: VehicleType,
-               parsed: Plan | None, empty: EmptyState, sheet_phase: dict[str, Any] | None
+               parsed: Plan | None, empty: EmptyState, sheet_phase: Mapping[str, Any] | None
                ) -> dict[str, Any]:
     """The ``condition`` section: what was loaded, at which phase, on which empty weight."""
     return {"configuration": name, "plan": None if plan is None else str(plan),

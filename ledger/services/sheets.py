@@ -20,6 +20,7 @@ Two levels, the same work:
 from __future__ import annotations
 
 import datetime as dt
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, NamedTuple
@@ -59,6 +60,7 @@ from ledger.typedata.plan import (
 
 __all__ = [
     "QuickOptions",
+    "Document",
     "PlanInput",
     "read_plan",
     "read_amendment_plan",
@@ -124,13 +126,17 @@ def read_amendment_plan(path: str, *, max_size: int | None = None) -> PlanInput:
     return PlanInput(read_plan_file(path, max_size=max_size), str(path))
 
 
+#: A loading-sheet document (``docs/sheet-document.md``), as the builder or the store gives it.
+Document = Mapping[str, Any]
+
+
 # --- results --------------------------------------------------------------------------------------
 
 @dataclass(frozen=True)
 class PreparedSheet:
     """A computed sheet and everything needed to save it."""
 
-    document: dict = field(repr=False)
+    document: Document = field(repr=False)
     plan: Plan = field(repr=False)
     raw_plan: dict = field(repr=False)
     registration: str = ""
@@ -154,7 +160,7 @@ class SheetResult:
     """What :func:`prepare` made: the sheet document (``docs/sheet-document.md``) and, when it
     was saved, the saved sheet (whose document is the one given here)."""
 
-    document: dict = field(repr=False)
+    document: Document = field(repr=False)
     saved: SavedSheet | None = None
 
     @property
@@ -170,7 +176,7 @@ class AmendedSheet:
     check: AmendmentCheck
 
     @property
-    def document(self) -> dict:
+    def document(self) -> Document:
         return self.saved.document
 
     @property
@@ -186,7 +192,7 @@ class ShownSheet:
     verified: bool
 
     @property
-    def document(self) -> dict:
+    def document(self) -> Document:
         return self.saved.document
 
 
@@ -284,7 +290,7 @@ def _context(session: Session, raw: dict, source: str,
 
 
 def _build(ctx: _Context, plan: Plan, *, preparer: str, prepared_at: dt.datetime,
-           with_fixes: bool = True) -> dict:
+           with_fixes: bool = True) -> Document:
     cfg = ctx.configuration
     return build_sheet(ctx.vtype, ctx.empty, plan,
                        configuration_items=None if cfg is None else cfg.items,
@@ -431,8 +437,8 @@ def amend_sheet(session: Session, sheet_id: int, *, options: QuickOptions | None
     if not check.within:
         raise _beyond_tolerance(root, ctx.vtype, check)
     prepared_at = prepared_at or dt.datetime.now(dt.UTC)
-    doc = _build(ctx, plan, preparer=preparer, prepared_at=prepared_at)
-    doc["amendment"] = {"of": original.id, "first_sheet": root.id, **check.to_dict()}
+    doc = {**_build(ctx, plan, preparer=preparer, prepared_at=prepared_at),
+           "amendment": {"of": original.id, "first_sheet": root.id, **check.to_dict()}}
     prepared = PreparedSheet(doc, plan, dict(raw), ctx.vehicle.registration, ctx.vehicle.id,
                              ctx.revision_id, ctx.empty.entry_id, preparer, prepared_at)
     return save_prepared(session, prepared, amends_id=original.id), check

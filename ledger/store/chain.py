@@ -310,7 +310,8 @@ def check_entries(registration: str, rows: Iterable[Sequence[Any]], *,
                                f"entry {expected_seq}: its seq {seq!r} is not a whole number")
 
         def bad(problem: str, at: int = seq) -> ChainReport:
-            return ChainReport(registration, count, None, None, False, at, problem)
+            # Called within this iteration only, so the loop's names are the current ones.
+            return ChainReport(registration, count, None, None, False, at, problem)  # noqa: B023
 
         if seq != expected_seq:
             if seq > expected_seq:

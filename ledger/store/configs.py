@@ -141,10 +141,10 @@ def parse_item_spec(text: str, *, field: str = "--install") -> dict:
     {'name': 'stretcher', 'mass': '15 kg', 'x': '3.1 m', 'y': '0.2 m', 'z': None}
     >>> parse_item_spec("seat 3")
     {'name': 'seat 3', 'mass': None, 'x': None, 'y': None, 'z': None}
-    >>> parse_item_spec("pod=40 kg")
+    >>> parse_item_spec("pod=40 kg")  # doctest: +ELLIPSIS
     Traceback (most recent call last):
     ...
-    ledger.errors.InputError: --install = 'pod=40 kg': NAME=MASS@ARM[,LAT[,VERT]], e.g. 'stretcher=15 kg@120 in', or NAME alone for an installed item to remove
+    ledger.errors.InputError: --install = 'pod=40 kg': NAME=MASS@ARM[,LAT[,VERT]], e.g. ...
     """
     m = _SPEC.match(text or "")
     if not m or ("=" in text and m.group("mass") is None):
@@ -221,57 +221,12 @@ def _from_row(row: ConfigurationRow, source: str, owner: str) -> ConfigurationVi
                              row.created_at)
 
 
-def define_configuration(session: Session, name: str, *, actor: str,
-                         type_name: str | None = None, registration: str | None = None,
-                         items: Sequence[Mapping[str, Any]] = (),
-                         description: str | None = None,
-                         disables_stations: Sequence[str] = (),
-                         replace: bool = False) -> ConfigurationView:
-    """Define (or with ``replace`` redefine) a configuration of a type or of one vehicle.
-
-    Parameters
-    ----------
-    items : sequence of mappings
-        ``{"name", "action": "install"|"remove", "mass", "x", "y"?, "z"?, "shape"?}``; values
-        are SI numbers or user strings (a bare number takes the type's display unit). A
-        ``remove`` item may leave out mass and arms: they come from the ledger when applied.
-    disables_stations : sequence of str
-        Stations of the type that cannot be loaded in this configuration.
-
-    Raises
-    ------
-    InputError
-        Neither or both owners, a bad name, an item without mass or arm, a duplicate item,
-        an unknown station.
-    ConflictError
-        The name exists already (without ``replace``) or is one of the type file's.
-    """
+def _items_in_si(items: Sequence[Mapping[str, Any]], units) -> list[dict]:
+    """The items of a configuration as stored: names checked, each once; masses and arms in SI
+    (a bare number takes the type's display ``units``); a removed item without a mass is left
+    to the ledger (``from_ledger``)."""
     from ledger.store.entries import _length, _mass, _text, parse_shape
 
-    cname = _text(name, "NAME", required=True, max_len=NAME_MAX)
-    check_text("--by", actor, TEXT_MAX)
-    if description is not None:
-        check_text("--description", description)
-    if (type_name is None) == (registration is None):
-        raise InputError("--type/--vehicle", type_name or registration or "",
-                         "exactly one owner: --type NAME or --vehicle REG")
-    if registration is not None:
-        from ledger.store.catalog import get_vehicle
-
-        vehicle = get_vehicle(session, registration)
-        owner_type_id, owner = vehicle.type_id, vehicle.registration
-        owner_filter = ConfigurationRow.vehicle_id == vehicle.id
-    else:
-        trow = _type_row(session, type_name)
-        owner_type_id, owner = trow.id, trow.name
-        owner_filter = ConfigurationRow.type_id == trow.id
-    vtype = _vtype_by_type_id(session, owner_type_id)
-    if registration is None and any(c.name == cname for c in vtype.configurations):
-        raise ConflictError(f"type {owner} has a configuration {cname!r} in its type file; "
-                            "choose another name (or change the type file)")
-    if not items and not disables_stations:
-        raise InputError("--install/--remove", "", "at least one item or --disable-station")
-    units = vtype.units
     out_items = []
     seen = set()
     for j, raw in enumerate(items):
@@ -303,6 +258,60 @@ def define_configuration(session: Session, name: str, *, actor: str,
         if shape:
             item["shape"] = shape
         out_items.append(item)
+    return out_items
+
+
+def define_configuration(session: Session, name: str, *, actor: str,
+                         type_name: str | None = None, registration: str | None = None,
+                         items: Sequence[Mapping[str, Any]] = (),
+                         description: str | None = None,
+                         disables_stations: Sequence[str] = (),
+                         replace: bool = False) -> ConfigurationView:
+    """Define (or with ``replace`` redefine) a configuration of a type or of one vehicle.
+
+    Parameters
+    ----------
+    items : sequence of mappings
+        ``{"name", "action": "install"|"remove", "mass", "x", "y"?, "z"?, "shape"?}``; values
+        are SI numbers or user strings (a bare number takes the type's display unit). A
+        ``remove`` item may leave out mass and arms: they come from the ledger when applied.
+    disables_stations : sequence of str
+        Stations of the type that cannot be loaded in this configuration.
+
+    Raises
+    ------
+    InputError
+        Neither or both owners, a bad name, an item without mass or arm, a duplicate item,
+        an unknown station.
+    ConflictError
+        The name exists already (without ``replace``) or is one of the type file's.
+    """
+    from ledger.store.entries import _text
+
+    cname = _text(name, "NAME", required=True, max_len=NAME_MAX)
+    check_text("--by", actor, TEXT_MAX)
+    if description is not None:
+        check_text("--description", description)
+    if (type_name is None) == (registration is None):
+        raise InputError("--type/--vehicle", type_name or registration or "",
+                         "exactly one owner: --type NAME or --vehicle REG")
+    if registration is not None:
+        from ledger.store.catalog import get_vehicle
+
+        vehicle = get_vehicle(session, registration)
+        owner_type_id, owner = vehicle.type_id, vehicle.registration
+        owner_filter = ConfigurationRow.vehicle_id == vehicle.id
+    else:
+        trow = _type_row(session, type_name)
+        owner_type_id, owner = trow.id, trow.name
+        owner_filter = ConfigurationRow.type_id == trow.id
+    vtype = _vtype_by_type_id(session, owner_type_id)
+    if registration is None and any(c.name == cname for c in vtype.configurations):
+        raise ConflictError(f"type {owner} has a configuration {cname!r} in its type file; "
+                            "choose another name (or change the type file)")
+    if not items and not disables_stations:
+        raise InputError("--install/--remove", "", "at least one item or --disable-station")
+    out_items = _items_in_si(items, vtype.units)
     stations = [s.name for s in vtype.stations]
     for s in disables_stations:
         if s not in stations:

@@ -19,8 +19,9 @@ from __future__ import annotations
 import datetime as dt
 import hashlib
 import json
+from collections.abc import Mapping
 from dataclasses import dataclass, field
-from typing import NamedTuple
+from typing import Any, NamedTuple
 
 from sqlalchemy import event, select
 from sqlalchemy.orm import Session
@@ -120,7 +121,7 @@ def _refuse_delete(_mapper, _connection, target) -> None:  # pragma: no cover - 
 
 
 def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entry_id: int,
-               plan: dict, document: dict, preparer: str,
+               plan: Mapping[str, Any], document: Mapping[str, Any], preparer: str,
                created_at: dt.datetime | None = None,
                amends_id: int | None = None) -> SavedSheet:
     """Store a computed sheet; return it as read back (with its id).
@@ -131,9 +132,9 @@ def save_sheet(session: Session, *, vehicle_id: int, type_revision_id: int, entr
         An open session; the caller's transaction commits it.
     vehicle_id, type_revision_id, entry_id : int
         The vehicle, the type revision and the ledger entry (empty weight) the sheet used.
-    plan : dict
+    plan : mapping
         The plan in SI (``Plan.to_dict()``).
-    document : dict
+    document : mapping
         The sheet document (``ledger.loadsheet.build_sheet``); its ``verdict`` is stored too.
     preparer : str
         Who prepared it.

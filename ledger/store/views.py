@@ -15,17 +15,13 @@ import datetime as dt
 from sqlalchemy import func, select
 from sqlalchemy.orm import Session
 
-from ledger.store.entries import (
-    Entry,
-    drift_warnings,
-    entries_of,
-    get_entry,
-    installed_items,
-    negligible_change,
-    parse_date,
-    type_info,
-)
+from ledger.core.ledger_rule import negligible_change
+from ledger.store.entry_reads import entries_of, get_entry, installed_items
 from ledger.store.models import LedgerEntryRow, VehicleTypeRow
+from ledger.store.records import Entry
+from ledger.store.typeinfo import type_info
+from ledger.typedata.readings import parse_date
+from ledger.typedata.reweigh import drift_warnings
 
 __all__ = ["fleet_view", "vehicle_view", "history_view", "entry_view"]
 
@@ -74,7 +70,7 @@ def fleet_view(session: Session) -> list[dict]:
     from ledger.store.fleet import fleet_rows
 
     rows = fleet_rows(session)
-    types = {}
+    types: dict[int, tuple] = {}
     out = []
     for (reg, tname, tid, seq, m, mx, my, mz, zk, base_seq, weighed, bm, bmx,
          last_date) in rows:

@@ -326,7 +326,7 @@ def test_every_command_has_help(command):
 @pytest.mark.parametrize("argv", [["weigh", "--help"], ["history", "--help"],
                                   ["config", "--help"]])
 def test_help_of_ledger_commands_imports_no_heavy_library(argv):
-    probe = ("import runpy, sys\nsys.argv = ['wbledger', *%r]\ntry:\n"
+    probe = ("import runpy, sys\nsys.argv = ['wbledger', *%r]\ntry:\n"  # noqa: UP031
              "    runpy.run_module('ledger', run_name='__main__')\nexcept SystemExit:\n"
              "    pass\nprint(sorted({m.split('.')[0] for m in sys.modules} & "
              "{'sqlalchemy', 'numpy', 'alembic', 'psycopg'}))\n") % (argv,)

@@ -80,7 +80,8 @@ def test_ballast_formula():
 def test_ballast_aft_and_vectorised():
     # CG aft of an aft limit: ballast forward of the limit. 1,000 kg at 2.70 m, aft limit 2.60 m,
     # ballast at 0.60 m: 1,000 × 0.10 / 2.00 = 50 kg (by hand).
-    assert_close(ballast_mass(1000.0, 2.70, 2.60, 0.60), 50.0, unit="kg", rtol=1e-12, what="ballast")
+    assert_close(ballast_mass(1000.0, 2.70, 2.60, 0.60), 50.0, unit="kg", rtol=1e-12,
+                 what="ballast")
     out = ballast_mass([1000.0, 1800.0], [2.70, 76.0], [2.60, 78.0], [0.60, 150.0])
     np.testing.assert_allclose(out, [50.0, 50.0], rtol=1e-12)
     assert ballast_mass(1000.0, 2.6, 2.6, 2.6) == 0.0
@@ -246,7 +247,7 @@ def test_max_addable_against_dense_path_sampling(seed, arm, moment):
         assert not covers(env, px, py)
 
 
-# --------------------------------------------------------------------------- applied fixes hit the target
+# ----------------------------------------------------------------- applied fixes hit the target
 masses = st.floats(100.0, 10_000.0)
 arms = st.floats(-10.0, 10.0)
 

@@ -28,7 +28,8 @@ NOTCHED = np.array([
     (2.58, 1100.0), (2.30, 1100.0), (2.15, 950.0), (2.05, 800.0),
 ])
 # A notch from the top, in round numbers for hand-worked cases.
-VNOTCH = np.array([(0.0, 0.0), (4.0, 0.0), (4.0, 3.0), (3.0, 3.0), (2.0, 1.0), (1.0, 3.0), (0.0, 3.0)])
+VNOTCH = np.array([(0.0, 0.0), (4.0, 0.0), (4.0, 3.0), (3.0, 3.0), (2.0, 1.0), (1.0, 3.0),
+                   (0.0, 3.0)])
 
 
 def _star(rng, n, snap=None):
@@ -74,9 +75,11 @@ def test_orientation_and_closing_point():
          "envelope[3] = (1, 0): a point different from envelope[1]; a vertex may appear only once "
          "(only a closing point may repeat the first)"),
         ([[0, 0], [1, 1], [2, 2]],
-         "envelope = [(0, 0), (1, 1), (2, 2)]: points that enclose an area; these all lie on one line"),
+         "envelope = [(0, 0), (1, 1), (2, 2)]: points that enclose an area; these all lie on one "
+         "line"),
         ([[0, 5], [1, 5], [3, 5]],
-         "envelope = [(0, 5), (1, 5), (3, 5)]: points that enclose an area; these all lie on one line"),
+         "envelope = [(0, 5), (1, 5), (3, 5)]: points that enclose an area; these all lie on one "
+         "line"),
         ([[0, 0], [1, 1], [1, 0], [0, 1]],
          "envelope = [(0, 0), (1, 1), (1, 0), (0, 1)]: a simple polygon; edge 0 (0, 0)-(1, 1) and "
          "edge 2 (1, 0)-(0, 1) cross at (0.5, 0.5). List the points in order round the boundary"),
@@ -328,8 +331,10 @@ def test_margins_hand_worked_notched_envelope():
     assert_close([r.to_fwd, r.to_aft], [0.20, 0.05], unit="m", atol=1e-12, what="margins")
     # At CG 2.40 m: min 550 kg (bottom edge); max where the line x = 2.40 meets the upper edges:
     # edge (2.45, 1000)-(2.58, 1100) is aft of 2.45, so the top edge at 1100 kg.
-    assert_close([r.min_mass, r.max_mass], [550.0, 1100.0], unit="kg", atol=1e-9, what="mass limits")
-    assert_close([r.to_min_mass, r.to_max_mass], [450.0, 100.0], unit="kg", atol=1e-9, what="margins")
+    assert_close([r.min_mass, r.max_mass], [550.0, 1100.0], unit="kg", atol=1e-9,
+                 what="mass limits")
+    assert_close([r.to_min_mass, r.to_max_mass], [450.0, 100.0], unit="kg", atol=1e-9,
+                 what="margins")
 
 
 def test_margins_on_the_max_mass_edge_and_outside():

@@ -23,6 +23,8 @@ from ledger.core.ground import (
     check_axle_ratings,
     corner_weights,
 )
+from ledger.errors import InputError
+from ledger.testing import assert_close
 
 #: The US federal Interstate limits as a rule-set mapping (23 CFR 658.17; 23 U.S.C. 127): the
 #: same figures the shipped rule file ledger/rules/us-federal-interstate.toml holds.
@@ -43,8 +45,7 @@ US_FEDERAL_INTERSTATE = {
 def rule_set(name: str) -> RuleSet:
     assert name == "us-interstate"
     return RuleSet.from_dict(US_FEDERAL_INTERSTATE)
-from ledger.errors import InputError
-from ledger.testing import assert_close
+
 
 UREG = pint.UnitRegistry()
 

@@ -104,7 +104,8 @@ def test_scalar_is_one_item_and_scalar_arm_broadcasts():
 def test_three_axis_state_cg():
     s = add_items(10.0, [10.0, 0.0, 5.0], [2.0], [[4.0, -1.0, 0.5]])
     assert isinstance(s, MassState)
-    assert_close(np.asarray(s.cg), [18.0 / 12, -2.0 / 12, 6.0 / 12], unit="m", rtol=1e-14, what="CG")
+    assert_close(np.asarray(s.cg), [18.0 / 12, -2.0 / 12, 6.0 / 12], unit="m", rtol=1e-14,
+                 what="CG")
     assert math.isnan(MassState(0.0, 0.0).cg)
 
 
@@ -132,7 +133,8 @@ def test_removing_everything_leaves_zero_mass():
         (lambda: mass_properties([1.0, 2.0], [0.0, 1.0], z=[[0.0, 0.0], [float("-inf"), 0.0]]),
          "z[1, 0] = -inf: a finite arm"),
         (lambda: mass_properties([1.0, 2.0, 3.0], [1.0, 2.0]),
-         "x = an array of shape (2,): one arm per item, broadcastable against masses of shape (3,)"),
+         "x = an array of shape (2,): one arm per item, broadcastable against masses of "
+         "shape (3,)"),
         (lambda: mass_properties([0.0, 0.0], [1.0, 2.0]),
          "sum(masses) = 0: a total mass above 0; a CG needs at least one item with mass"),
         (lambda: mass_properties([[1.0, 0.0], [0.0, 0.0]], [1.0, 2.0]),
@@ -242,7 +244,8 @@ def test_cg_lies_in_the_convex_hull_of_the_items(load):
     m, x, y = load
     r = mass_properties(m, x, y=y)
     hull = shapely.MultiPoint(np.column_stack([x, y])).convex_hull
-    assert shapely.distance(hull, shapely.Point(r.cg.x, r.cg.y)) <= 1e-9 * (np.abs([x, y]).max() + 1)
+    bound = 1e-9 * (np.abs([x, y]).max() + 1)
+    assert shapely.distance(hull, shapely.Point(r.cg.x, r.cg.y)) <= bound
 
 
 @settings(max_examples=60, deadline=None)

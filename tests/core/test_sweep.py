@@ -29,13 +29,15 @@ NOTCHED_MM = np.array([
 ])
 # A notch from the top: between masses 1 and 3 a horizontal line crosses the boundary four
 # times (two intervals in limits).
-VNOTCH = np.array([(0.0, 0.0), (4.0, 0.0), (4.0, 3.0), (3.0, 3.0), (2.0, 1.0), (1.0, 3.0), (0.0, 3.0)])
+VNOTCH = np.array([(0.0, 0.0), (4.0, 0.0), (4.0, 3.0), (3.0, 3.0), (2.0, 1.0), (1.0, 3.0),
+                   (0.0, 3.0)])
 # Steps: horizontal edges at intermediate masses (2 and 4), not only at the top and bottom.
 STEPS = np.array([(0.0, 0.0), (6.0, 0.0), (6.0, 2.0), (5.0, 2.0), (5.0, 4.0), (3.0, 4.0),
                   (3.0, 6.0), (1.0, 6.0), (1.0, 4.0), (0.0, 4.0)])
 # A comb: three intervals at mid mass, with its teeth's tips on one level.
 COMB = np.array([(0.0, 0.0), (7.0, 0.0), (7.0, 4.0), (6.0, 4.0), (5.5, 1.0), (5.0, 4.0),
-                 (4.0, 4.0), (3.5, 1.0), (3.0, 4.0), (2.0, 4.0), (1.5, 1.0), (1.0, 4.0), (0.0, 4.0)])
+                 (4.0, 4.0), (3.5, 1.0), (3.0, 4.0), (2.0, 4.0), (1.5, 1.0), (1.0, 4.0),
+                 (0.0, 4.0)])
 SHAPES = {"notched_mm": NOTCHED_MM, "vnotch": VNOTCH, "steps": STEPS, "comb": COMB}
 
 
@@ -297,7 +299,8 @@ def test_sweep_shapes():
     assert none.mass.shape == (0,)
 
 
-@pytest.mark.parametrize("bad, where", [(-1.0, (40_000, 2)), (np.nan, (3, 1)), (np.inf, (9_000, 4))])
+@pytest.mark.parametrize("bad, where",
+                         [(-1.0, (40_000, 2)), (np.nan, (3, 1)), (np.inf, (9_000, 4))])
 def test_sweep_bad_mass_same_error_as_mass_properties(bad, where):
     m = _cases(np.random.default_rng(1), 50_000)
     m[where] = bad

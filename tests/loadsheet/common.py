@@ -1,61 +1,17 @@
-"""Small vehicle types built in the tests, and helpers shared by the loading-sheet tests.
-
-The types are test fixtures (no real aircraft): each test that checks a figure says which
-published example or formula the figure comes from.
+"""Helpers shared by the loading-sheet tests; the small test types are built with
+:mod:`ledger.testing` (``lb_in_type``, ``station``, ``envelope``).
 """
 
 from __future__ import annotations
 
 from ledger.loadsheet import EmptyWeight, build_sheet
+from ledger.testing import envelope, lb_in_type, station  # noqa: F401 - shared with the suite
 from ledger.typedata import parse_type_text
 from ledger.typedata.plan import parse_plan, read_plan_text
 
 LB = 0.45359237   # kg, exact (NIST SP 811, appendix B)
 IN = 0.0254       # m, exact (NIST SP 811, appendix B)
 USGAL = 3.785411784e-3  # m3, exact (NIST SP 811, appendix B)
-
-
-def lb_in_type(*, name: str = "TEST-LBIN", limits: str = "max_takeoff = 8000",
-               stations: str = "", tanks: str = "", envelopes: str = "", extra: str = "",
-               kind: str = "airplane") -> str:
-    """TOML text of a test type in lb and in (moment index lb*in / 1000)."""
-    return f"""
-format_version = 1
-[vehicle]
-name = "{name}"
-title = "Test type {name}"
-kind = "{kind}"
-[units]
-mass = "lb"
-length = "in"
-volume = "USgal"
-moment_divisor = 1000
-[datum]
-description = "test datum"
-[limits]
-{limits}
-{stations}
-{tanks}
-{envelopes}
-{extra}
-"""
-
-
-def station(name: str, kind: str, x: float, *, max_mass: float | None = None,
-            y: float | None = None, extra: str = "") -> str:
-    text = f'\n[[station]]\nname = "{name}"\nkind = "{kind}"\nx = {x}\n'
-    if y is not None:
-        text += f"y = {y}\n"
-    if max_mass is not None:
-        text += f"max_mass = {max_mass}\n"
-    return text + extra
-
-
-def envelope(points, *, name: str = "normal", category: str = "normal",
-             axis: str = "longitudinal") -> str:
-    pts = ", ".join(f"[{a}, {b}]" for a, b in points)
-    return (f'\n[[envelope]]\nname = "{name}"\ncategory = "{category}"\naxis = "{axis}"\n'
-            f"points = [{pts}]\n")
 
 
 def make_type(text: str):

@@ -153,3 +153,11 @@ def test_any_chart_fits_its_width_and_shows_every_point(poly, pts, width, height
     body = "\n".join(lines)
     for _, _, label in points:
         assert label in body
+
+
+def test_a_subnormal_span_gets_one_tick_not_an_error():
+    # Hypothesis found it: a span of 5e-324 made the tick step's log10 fail.
+    assert nice_ticks(0.0, 5e-324, 4) == [0.0]
+    lines = envelope_chart([[(0, 0)] * 3], [(0.0, 5e-324, "Z")], [(0.0, 5e-324)], width=30,
+                           height=4)
+    assert lines and all(len(line) <= 30 for line in lines)

@@ -14,6 +14,8 @@ from pathlib import Path
 
 from sqlalchemy import text
 
+from ledger.testing import envelope, import_types, lb_in_type, reaction_point, station, tank
+
 LB = 0.45359237   # kg, exact (NIST SP 811, appendix B)
 IN = 0.0254       # m, exact (NIST SP 811, appendix B)
 USGAL = 3.785411784e-3  # m3, exact (NIST SP 811, appendix B)
@@ -182,6 +184,23 @@ x = 500.0
 
 TYPES = {"TT-A1": TYPE_A, "TT-H1": TYPE_H, "TT-D1": TYPE_D}
 
+
+def ts_type(name: str = "TS-1", *, title: str, mtow: float = 2450, baggage_max: float = 500,
+            aft_x: float = 60.0, rear_seats: bool = False) -> str:
+    """TOML text of the small test airplane of the saved-sheet and tamper suites (INVENTED):
+    lb and in, a pilot at 37 in, baggage at 95 in, one avgas tank, a rectangular envelope from
+    35 in to ``aft_x``, weighed on a nose wheel at -6.5 in and mains at 58 in."""
+    stations = station("pilot", "crew", 37.0)
+    if rear_seats:
+        stations += station("rear", "passenger", 73.0, extra="persons = 2\n")
+    stations += station("baggage", "cargo", 95.0, max_mass=baggage_max)
+    return lb_in_type(
+        name=name, title=title, limits=f"max_takeoff = {mtow}", stations=stations,
+        tanks=tank("main", "avgas", 48.0, capacity=40, unusable=1),
+        envelopes=envelope([(35.0, 1500), (35.0, mtow), (aft_x, mtow), (aft_x, 1500)]),
+        extra=(reaction_point("nose", -6.5) + reaction_point("main", 58.0)
+               + '[tolerances]\nlast_minute_mass = "20 lb"\nlast_minute_persons = 0\n'))
+
 #: Readings giving 6,860 lb at 80.0 in on TT-A1 (see the module notes).
 READINGS_A = {"nose": "1715 lb", "left main": "2572.5 lb", "right main": "2572.5 lb"}
 DAY0 = dt.date(2025, 1, 10)
@@ -198,13 +217,11 @@ def write_types(folder: Path) -> list[Path]:
 
 def setup_fleet(engine, vehicles: dict[str, str]) -> None:
     """Import the test types and add ``{registration: type name}``."""
-    from ledger.store.catalog import add_vehicle, import_type
+    from ledger.store.catalog import add_vehicle
     from ledger.store.db import session_scope
-    from ledger.typedata import parse_type_text
 
     with session_scope(engine) as s:
-        for name, body in TYPES.items():
-            import_type(s, parse_type_text(body, source=f"{name}.toml"), f"{name}.toml", body)
+        import_types(s, {f"{name}.toml": body for name, body in TYPES.items()})
         for reg, tname in vehicles.items():
             add_vehicle(s, reg, tname)
 

@@ -14,6 +14,7 @@ from sqlalchemy import text
 
 from ledger.store import evidence, guards
 from ledger.store.db import session_scope
+from ledger.store.evidence import parallel
 from tests.store.test_tamper import fleet  # noqa: F401 - the fixture
 
 pytestmark = pytest.mark.skipif(not hasattr(os, "fork"), reason="no fork on this platform")
@@ -22,10 +23,10 @@ pytestmark = pytest.mark.skipif(not hasattr(os, "fork"), reason="no fork on this
 def _both(engine, monkeypatch, **kw) -> dict:
     reports = []
     for threshold in (10**12, 1):
-        monkeypatch.setattr(evidence, "PARALLEL_FROM", threshold)
+        monkeypatch.setattr(parallel, "PARALLEL_FROM", threshold)
         monkeypatch.setattr("ledger.core._parallel.cores", lambda: 2)
         with session_scope(engine) as s:
-            assert evidence._can_fork(s, None) == (threshold == 1)
+            assert parallel.can_fork(s, None) == (threshold == 1)
             reports.append(evidence.verify_fleet(s, **kw).to_dict())
     assert reports[0] == reports[1]
     return reports[0]

@@ -246,6 +246,7 @@ def test_conflicts_write_nothing(fleet):
         remove(fleet, "KV-101", "radio")
     assert str(err.value) == ("item 'radio' is not installed (removed by entry 3) on KV-101; "
                               "installed items: none")
+    assert snapshot(fleet) == before
     with pytest.raises(NotFoundError) as err:
         install(fleet, "NOPE", "radio", "3", "10")
     assert str(err.value) == ("no vehicle 'NOPE'. Known vehicles: KV-101, KV-102, KV-D1, KV-H1")

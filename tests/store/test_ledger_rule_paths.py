@@ -18,7 +18,7 @@ import pytest
 from sqlalchemy import select, text
 
 from ledger.store import entries, transfer
-from ledger.store.chain import verify_vehicle
+from ledger.store.chain import utc_text, verify_vehicle
 from ledger.store.db import make_engine, session_scope, upgrade
 from ledger.store.models import LedgerEntryRow
 from tests.store.ledger_support import DAY0, setup_fleet, weigh_a
@@ -114,7 +114,7 @@ def _as_typed(row: dict) -> dict:
     """What a person would write for a stored row: inputs only, plus a measured state."""
     rec = {k: row[k] for k in INPUT_COLUMNS if row[k] is not None}
     rec["entry_date"] = row["entry_date"].isoformat()
-    rec["recorded_at"] = transfer.utc_text(row["recorded_at"])
+    rec["recorded_at"] = utc_text(row["recorded_at"])
     if row["kind"] in ("weighing", "cg_height"):
         rec.update({k: row[k] for k in MEASURED})
         if not row["z_known"]:

@@ -32,7 +32,7 @@ from ledger.store.evidence import verify_fleet
 from ledger.store.seal import type_revision_seal
 from ledger.typedata import parse_type_text
 from ledger.typedata.plan import read_plan_text
-from tests.store.test_tamper import HEAVY, TYPE, fleet  # noqa: F401 - fleet is a fixture
+from tests.store.test_tamper import HEAVY, fleet, type_text  # noqa: F401 - fleet is a fixture
 
 
 def _fk_off(conn) -> None:
@@ -75,7 +75,7 @@ def test_a_vehicle_relinked_to_a_second_type_of_the_same_name(fleet):  # noqa: F
         created = dt.datetime(2026, 12, 1, tzinfo=dt.UTC)
         conn.execute(text("INSERT INTO vehicle_types (id, name, created_at) "
                           "VALUES (900, 'TS-1', :c)"), {"c": created})
-        body = TYPE.format(name="TS-1", mtow=3000)
+        body = type_text("TS-1", 3000)
         vtype = parse_type_text(body, source="TS-1.toml")
         spec_json = json.dumps(vtype.to_dict(), sort_keys=True, allow_nan=False)
         row = dict(type_id=900, revision=1, content_sha256=vtype.content_hash(),

@@ -14,68 +14,20 @@ from sqlalchemy import func, select, text
 from ledger.errors import ConflictError
 from ledger.services.sheets import prepare_sheet, save_prepared
 from ledger.store import guards
-from ledger.store.catalog import add_vehicle, import_type
+from ledger.store.catalog import add_vehicle
 from ledger.store.db import session_scope
 from ledger.store.entries import record_weighing
 from ledger.store.models import LoadingSheetRow
 from ledger.store.sheets import get_sheet, list_sheets, verify_sheet
-from ledger.testing import assert_close
-from ledger.typedata import parse_type_text
+from ledger.testing import assert_close, import_types
 from ledger.typedata.plan import read_plan_text
+from tests.store.ledger_support import ts_type
 
 LB = 0.45359237  # kg, exact (NIST SP 811)
 IN = 0.0254
 
-TYPE = """
-format_version = 1
-[vehicle]
-name = "TS-1"
-title = "Test type for saved sheets"
-kind = "airplane"
-[units]
-mass = "lb"
-length = "in"
-volume = "USgal"
-moment_divisor = 1000
-[datum]
-description = "test datum"
-[limits]
-max_takeoff = 2450
-[[station]]
-name = "pilot"
-kind = "crew"
-x = 37.0
-[[station]]
-name = "rear"
-kind = "passenger"
-x = 73.0
-persons = 2
-[[station]]
-name = "baggage"
-kind = "cargo"
-x = 95.0
-max_mass = 120
-[[tank]]
-name = "main"
-fluid = "avgas"
-capacity = 40
-unusable = 1
-x = 48.0
-[[envelope]]
-name = "normal"
-category = "normal"
-axis = "longitudinal"
-points = [[35.0, 1500], [35.0, 2450], [47.3, 2450], [47.3, 1500]]
-[[reaction_point]]
-name = "nose"
-x = -6.5
-[[reaction_point]]
-name = "main"
-x = 58.0
-[tolerances]
-last_minute_mass = "20 lb"
-last_minute_persons = 0
-"""
+TYPE = ts_type("TS-1", title="Test type for saved sheets", baggage_max=120, aft_x=47.3,
+               rear_seats=True)
 
 PLAN = """plan_format = 1
 vehicle = "TS-101"
@@ -94,9 +46,8 @@ main = "30 USgal"
 
 @pytest.fixture
 def fleet(engine):
-    vt = parse_type_text(TYPE, source="ts-1.toml")
     with session_scope(engine) as s:
-        import_type(s, vt, "ts-1.toml", TYPE)
+        import_types(s, {"ts-1.toml": TYPE})
         add_vehicle(s, "TS-101", "TS-1")
         add_vehicle(s, "TS-102", "TS-1")
         record_weighing(s, "TS-101", {"nose": "350 lb", "main": "1300 lb"}, actor="tester",

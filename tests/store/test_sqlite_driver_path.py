@@ -1,4 +1,4 @@
-"""The SQLite driver-level statements of an append (ledger.store.entries.sqlite_insert and the
+"""The SQLite driver-level statements of an append (ledger.store.sqlite_path.sqlite_insert and the
 vehicle/head/item query) against SQLAlchemy's own Core statements: the same stored text, the
 same values read back through the ORM, and chains that verify.
 
@@ -13,7 +13,7 @@ import pytest
 from sqlalchemy import select, text
 
 from ledger.errors import NotFoundError
-from ledger.store import entries
+from ledger.store import entries, heads
 from ledger.store.chain import verify_vehicle
 from ledger.store.db import make_engine, session_scope, upgrade
 from ledger.store.models import LedgerEntryRow
@@ -59,7 +59,7 @@ def test_driver_insert_stores_what_core_insert_stores(sqlite_fleet):
         for r in orm_rows:
             values = {c: getattr(r, c) for c in cols}
             values["vehicle_id"] = vid
-            s.connection().execute(entries._INSERT, values)
+            s.connection().execute(heads.INSERT, values)
     assert _stored(eng, "KV-102") == mine
     # Read back through the ORM, the driver-inserted entry has the values install returned.
     with session_scope(eng) as s:
@@ -83,8 +83,8 @@ def test_driver_query_reads_what_the_core_query_reads(sqlite_fleet):
                              actor="T. Ech", reason="test", entry_date=D1)
     for item in ("rack", "never installed"):
         with session_scope(eng) as s:
-            vehicle, head, state = entries._locked_item_state(s, "KV-101", item)
-            core = s.connection().execute(entries._VEHICLE_HEAD_ITEM,
+            vehicle, head, state = heads.locked_item_state(s, "KV-101", item)
+            core = s.connection().execute(heads.VEHICLE_HEAD_ITEM,
                                           {"reg": "KV-101", "item": item}).first()
             assert tuple(vehicle) == tuple(core[:3])
             assert head == tuple(core[3:12])
@@ -92,7 +92,7 @@ def test_driver_query_reads_what_the_core_query_reads(sqlite_fleet):
             assert state == (tuple(core[12:]) if core[12] is not None else None)
     # A vehicle with no entries yet, and one that does not exist.
     with session_scope(eng) as s:
-        vehicle, head, state = entries._locked_item_state(s, "KV-102", "rack")
+        vehicle, head, state = heads.locked_item_state(s, "KV-102", "rack")
         assert vehicle.registration == "KV-102" and head is None and state is None
     with pytest.raises(NotFoundError), session_scope(eng) as s:
-        entries._locked_item_state(s, "KV-999", "rack")
+        heads.locked_item_state(s, "KV-999", "rack")

@@ -28,61 +28,22 @@ from sqlalchemy.orm import Session
 
 from ledger.services.sheets import amend_sheet, prepare_sheet, save_prepared
 from ledger.store import checkpoint, guards
-from ledger.store.catalog import add_vehicle, import_type
+from ledger.store.catalog import add_vehicle
 from ledger.store.chain import content_hash
 from ledger.store.configs import define_configuration
 from ledger.store.db import session_scope
 from ledger.store.entries import install_item, record_weighing
 from ledger.store.evidence import verify_fleet
 from ledger.store.sheets import verify_sheet
-from ledger.typedata import parse_type_text
+from ledger.testing import import_types
 from ledger.typedata.plan import QuickOptions, read_plan_text
+from tests.store.ledger_support import ts_type
 
-TYPE = """
-format_version = 1
-[vehicle]
-name = "{name}"
-title = "Test type for the tamper suite (invented)"
-kind = "airplane"
-[units]
-mass = "lb"
-length = "in"
-volume = "USgal"
-moment_divisor = 1000
-[datum]
-description = "test datum"
-[limits]
-max_takeoff = {mtow}
-[[station]]
-name = "pilot"
-kind = "crew"
-x = 37.0
-[[station]]
-name = "baggage"
-kind = "cargo"
-x = 95.0
-max_mass = 500
-[[tank]]
-name = "main"
-fluid = "avgas"
-capacity = 40
-unusable = 1
-x = 48.0
-[[envelope]]
-name = "normal"
-category = "normal"
-axis = "longitudinal"
-points = [[35.0, 1500], [35.0, {mtow}], [60.0, {mtow}], [60.0, 1500]]
-[[reaction_point]]
-name = "nose"
-x = -6.5
-[[reaction_point]]
-name = "main"
-x = 58.0
-[tolerances]
-last_minute_mass = "20 lb"
-last_minute_persons = 0
-"""
+
+def type_text(name: str, mtow: float) -> str:
+    """The suite's test type (INVENTED) under ``name`` with take-off limit ``mtow`` lb."""
+    return ts_type(name, title="Test type for the tamper suite (invented)", mtow=mtow)
+
 
 # 1,650 lb empty + 2 lb lamp + 1 lb horn + 180 lb pilot + 447 lb cargo + 180 lb fuel (30 USgal
 # of avgas at 6.0 lb/USgal, FAA-H-8083-30 ch. 4) = 2,460 lb at take-off (no taxi fuel): 10 lb
@@ -103,9 +64,8 @@ main = "30 USgal"
 LIGHT = HEAVY.replace("mass = 447", "mass = 40")
 
 def _types(s):
-    for name, mtow in (("TS-1", 2450), ("TS-2", 3000)):
-        body = TYPE.format(name=name, mtow=mtow)
-        import_type(s, parse_type_text(body, source=f"{name}.toml"), f"{name}.toml", body)
+    import_types(s, {f"{name}.toml": type_text(name, mtow)
+                     for name, mtow in (("TS-1", 2450), ("TS-2", 3000))})
 
 
 @pytest.fixture

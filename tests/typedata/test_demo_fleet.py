@@ -191,7 +191,7 @@ def test_readme_results_match_the_readings(fleet, empties):
     for mark, (w, x, y) in results.items():
         t = fleet[marks[mark]]
         m, cx, cy = empties[t.name]
-        for text, si, dim in ((w, m, "mass"), (x, cx, "length"), (y, cy, "length")):
+        for text, si, _dim in ((w, m, "mass"), (x, cx, "length"), (y, cy, "length")):
             number, unit = text.replace("−", "-").split()
             decimals = len(number.split(".")[1]) if "." in number else 0
             assert to_unit(si, unit) == pytest.approx(float(number), abs=0.5 * 10 ** -decimals

@@ -32,69 +32,93 @@ BAD = HERE / "bad"
 # user sees after "Error: " -- the file, the field, the value as written and what is allowed.
 BAD_FILES = [
     ('ambiguous_gallon', UnitError,
-     "tank['main'].capacity = '20 gal': 'gal' is ambiguous; volume units: m3, L, USgal, impgal, ft3, in3; mass units: kg, g, t, lb, slug. Write USgal (3.785411784 L) or impgal (4.54609 L)"),
+     "tank['main'].capacity = '20 gal': 'gal' is ambiguous; volume units: m3, L, USgal, impgal, "
+     "ft3, in3; mass units: kg, g, t, lb, slug. Write USgal (3.785411784 L) or impgal (4.54609 L)"),
     ('area_without_unit', UnitError,
-     "station['baggage'].floor_area = 6: a unit is required; area units: length2 such as m2, ft2 (lengths: m, cm, mm, in, ft)"),
+     "station['baggage'].floor_area = 6: a unit is required; area units: length2 such as m2, ft2 "
+     "(lengths: m, cm, mm, in, ft)"),
     ('arm_outside_x_range', TypeDataError,
      "station['baggage'].x = 95: expected an arm within x_range (82 in to 94 in)"),
     ('arm_table_ragged', TypeDataError,
      "tank['main'].arm_table[1].y = (missing): expected y in every row of arm_table or in none"),
     ('arm_table_short', TypeDataError,
-     "tank['main'].arm_table[1].quantity = 15: expected at least the capacity (20 USgal); the table must cover the tank from unusable to capacity"),
+     "tank['main'].arm_table[1].quantity = 15: expected at least the capacity (20 USgal); the "
+     "table must cover the tank from unusable to capacity"),
     ('arm_table_unsorted', TypeDataError,
-     "tank['main'].arm_table[2].quantity = 8: expected more than the row before (12 USgal); rows must be in strictly increasing quantity"),
+     "tank['main'].arm_table[2].quantity = 8: expected more than the row before (12 USgal); rows "
+     "must be in strictly increasing quantity"),
     ('axle_group_unknown_axle', TypeDataError,
-     "axle_group['rear tandem'].axles[1] = 'rear 3': expected one of the axles: front, rear 1, rear 2"),
+     "axle_group['rear tandem'].axles[1] = 'rear 3': expected one of the axles: front, rear 1, "
+     "rear 2"),
     ('axles_on_airplane', TypeDataError,
-     "axle = {'name': 'main', 'x': 58.0, 'rating': 2000}: allowed only for kind ground_vehicle; an airplane is weighed on its [[reaction_point]]s"),
+     "axle = {'name': 'main', 'x': 58.0, 'rating': 2000}: allowed only for kind ground_vehicle; an "
+     "airplane is weighed on its [[reaction_point]]s"),
     ('bad_kind', TypeDataError,
-     "vehicle.kind = 'aeroplane': expected one of airplane, helicopter, drone, ground_vehicle. Did you mean 'airplane'?"),
+     "vehicle.kind = 'aeroplane': expected one of airplane, helicopter, drone, ground_vehicle. Did "
+     "you mean 'airplane'?"),
     ('bad_type_name', TypeDataError,
-     "vehicle.name = 'TEST A1': expected 1-40 letters, digits, '.', '_' or '-', starting with a letter or digit"),
+     "vehicle.name = 'TEST A1': expected 1-40 letters, digits, '.', '_' or '-', starting with a "
+     "letter or digit"),
     ('bool_mass', TypeDataError,
-     "station['baggage'].max_mass = true: expected the maximum mass of a cargo station: a number or a string such as '82 kg', got a boolean"),
+     "station['baggage'].max_mass = true: expected the maximum mass of a cargo station: a number "
+     "or a string such as '82 kg', got a boolean"),
     ('cargo_without_max_mass', TypeDataError,
      "station['baggage'].max_mass = (missing): required: the maximum mass of a cargo station"),
     ('density_without_unit', UnitError,
-     "tank['main'].density = 6: a unit is required; density units: mass/volume such as kg/L, lb/USgal (masses: kg, g, t, lb, slug; volumes: m3, L, USgal, impgal, ft3, in3)"),
+     "tank['main'].density = 6: a unit is required; density units: mass/volume such as kg/L, "
+     "lb/USgal (masses: kg, g, t, lb, slug; volumes: m3, L, USgal, impgal, ft3, in3)"),
     ('disables_unknown_station', TypeDataError,
-     "configuration['seats-out'].disables_stations[0] = 'rear left': expected a station name: pilot, baggage"),
+     "configuration['seats-out'].disables_stations[0] = 'rear left': expected a station name: "
+     "pilot, baggage"),
     ('display_unit_wrong', UnitError,
      "units.mass = 'in': 'in' is a unit of length, not of mass; mass units: kg, g, t, lb, slug"),
     ('duplicate_station', TypeDataError,
-     "station[1].name = 'Pilot': already used by station[0]; station and tank names must differ (ignoring case)"),
+     "station[1].name = 'Pilot': already used by station[0]; station and tank names must differ "
+     "(ignoring case)"),
     ('duplicate_toml_key', TypeDataError,
      "line 25 = 'x = 38.0': not valid TOML: Cannot overwrite a value (column 9)"),
     ('empty_file', TypeDataError,
      'format_version = (missing): required: format_version = 1 at the top of the file'),
     ('envelope_crossing', EnvelopeError,
-     "envelope['normal'].points = [(35, 1200), (47, 2000), (35, 2000), (47, 1200)]: a simple polygon; edge 0 (35, 1200)-(47, 2000) and edge 2 (35, 2000)-(47, 1200) cross at (41, 1600). List the points in order round the boundary"),
+     "envelope['normal'].points = [(35, 1200), (47, 2000), (35, 2000), (47, 1200)]: a simple "
+     "polygon; edge 0 (35, 1200)-(47, 2000) and edge 2 (35, 2000)-(47, 1200) cross at (41, 1600). "
+     "List the points in order round the boundary"),
     ('envelope_point_unit', UnitError,
-     "envelope['normal'].points[3][1] = '1200 in': 'in' is a unit of length, not of mass; mass units: kg, g, t, lb, slug"),
+     "envelope['normal'].points[3][1] = '1200 in': 'in' is a unit of length, not of mass; mass "
+     "units: kg, g, t, lb, slug"),
     ('envelope_two_points', EnvelopeError,
-     "envelope['normal'].points = [(35, 1200), (47, 2000)]: at least 3 distinct points; got 2 (a closing point equal to the first is not counted)"),
+     "envelope['normal'].points = [(35, 1200), (47, 2000)]: at least 3 distinct points; got 2 (a "
+     "closing point equal to the first is not counted)"),
     ('floor_limit_without_area', TypeDataError,
-     "station['baggage'].floor_load_limit = '50 lb/ft2': needs station['baggage'].floor_area, the loaded floor area"),
+     "station['baggage'].floor_load_limit = '50 lb/ft2': needs station['baggage'].floor_area, the "
+     "loaded floor area"),
     ('ground_limit_on_airplane', TypeDataError,
-     'limits.gross_rating = 2000: allowed only for kind ground_vehicle; an airplane uses max_ramp, max_takeoff, max_landing, max_zero_fuel, min_flight'),
+     'limits.gross_rating = 2000: allowed only for kind ground_vehicle; an airplane uses max_ramp, '
+     'max_takeoff, max_landing, max_zero_fuel, min_flight'),
     ('ground_one_axle', TypeDataError,
      'axle = (1 given): a ground vehicle needs at least two [[axle]] tables'),
     ('ground_takeoff_limit', TypeDataError,
      'limits.max_takeoff = 7500: not for a ground vehicle; use gross_rating and the axle ratings'),
     ('helicopter_no_lateral', TypeDataError,
-     'envelope[*].axis = [\'longitudinal\']: a helicopter needs at least one [[envelope]] with axis = "lateral" as well as a longitudinal one'),
+     'envelope[*].axis = [\'longitudinal\']: a helicopter needs at least one [[envelope]] with '
+     'axis = "lateral" as well as a longitudinal one'),
     ('inertia_mixed_keys', TypeDataError,
-     'inertia.rx = 0.25: unknown key for basis = "measured"; allowed here: basis, ixx, iyy, izz, ixz, ixy, iyz, note'),
+     'inertia.rx = 0.25: unknown key for basis = "measured"; allowed here: basis, ixx, iyy, izz, '
+     'ixz, ixy, iyz, note'),
     ('inertia_triangle', TypeDataError,
-     "inertia.izz = '3500 kg*m2': expected at most ixx + iyy (3000 kg*m2); no body has a larger one"),
+     "inertia.izz = '3500 kg*m2': expected at most ixx + iyy (3000 kg*m2); no body has a larger "
+     "one"),
     ('inertia_without_unit', UnitError,
-     'inertia.ixx = 1200: a unit is required; moment of inertia units: mass*length2 such as kg*m2, slug*ft2 (masses: kg, g, t, lb, slug; lengths: m, cm, mm, in, ft)'),
+     'inertia.ixx = 1200: a unit is required; moment of inertia units: mass*length2 such as kg*m2, '
+     'slug*ft2 (masses: kg, g, t, lb, slug; lengths: m, cm, mm, in, ft)'),
     ('landing_above_takeoff', TypeDataError,
      'limits.max_landing = 2100: expected at most max_takeoff (2000 lb)'),
     ('load_share_sum', TypeDataError,
-     "axle_group['rear tandem'].load_share = [0.5, 0.6]: expected ratios that sum to 1 (these sum to 1.1)"),
+     "axle_group['rear tandem'].load_share = [0.5, 0.6]: expected ratios that sum to 1 (these sum "
+     "to 1.1)"),
     ('mass_set_builtin_name', TypeDataError,
-     "mass_set['easa-crew'].name = 'easa-crew': the name of a built-in set; choose another name (built-in: faa-light-170lb, faa-ac120-27e-summer, faa-ac120-27e-winter, easa-crew)"),
+     "mass_set['easa-crew'].name = 'easa-crew': the name of a built-in set; choose another name "
+     "(built-in: faa-light-170lb, faa-ac120-27e-summer, faa-ac120-27e-winter, easa-crew)"),
     ('missing_format_version', TypeDataError,
      'format_version = (missing): required: format_version = 1 at the top of the file'),
     ('missing_name', TypeDataError,
@@ -102,51 +126,66 @@ BAD_FILES = [
     ('missing_takeoff', TypeDataError,
      'limits.max_takeoff = (missing): required: the maximum take-off mass of an airplane'),
     ('missing_volume_unit', TypeDataError,
-     'units.volume = (missing): required: a volume unit (m3, L, USgal, impgal, ft3, in3) when there are tanks'),
+     'units.volume = (missing): required: a volume unit (m3, L, USgal, impgal, ft3, in3) when '
+     'there are tanks'),
     ('negative_mass', TypeDataError,
-     "station['baggage'].max_mass = -100: expected the maximum mass of a cargo station greater than 0"),
+     "station['baggage'].max_mass = -100: expected the maximum mass of a cargo station greater "
+     "than 0"),
     ('no_longitudinal_envelope', TypeDataError,
-     'envelope[*].axis = [\'lateral\']: an airplane needs at least one [[envelope]] with axis = "longitudinal"'),
+     'envelope[*].axis = [\'lateral\']: an airplane needs at least one [[envelope]] with axis = '
+     '"longitudinal"'),
     ('nonfinite_mass', UnitError,
      'limits.max_takeoff = nan: not a finite number; a mass must be a finite number'),
     ('percent_mac_without_mac', TypeDataError,
-     'tolerances.reweigh_cg_percent_mac = 0.5: needs a [mac] table; without one use reweigh_cg_shift (a length)'),
+     'tolerances.reweigh_cg_percent_mac = 0.5: needs a [mac] table; without one use '
+     'reweigh_cg_shift (a length)'),
     ('persons_on_cargo', TypeDataError,
      "station['baggage'].persons = 2: allowed only on crew and passenger stations"),
     ('point_not_pair', TypeDataError,
      "envelope['normal'].points[2] = [47.0, 2000, 5]: expected a point [cg, mass]"),
     ('shape_bad_radius', TypeDataError,
-     "configuration['pod'].item['pod'].shape.inner_radius = 9: expected less than the radius (8 in)"),
+     "configuration['pod'].item['pod'].shape.inner_radius = 9: expected less than the radius "
+     "(8 in)"),
     ('station_not_table', TypeDataError,
      "station = 'pilot': expected an array of tables [[station]], got a string"),
     ('station_tank_same_name', TypeDataError,
-     "tank[0].name = 'baggage': already used by station[1]; station and tank names must differ (ignoring case)"),
+     "tank[0].name = 'baggage': already used by station[1]; station and tank names must differ "
+     "(ignoring case)"),
     ('syntax_error', TypeDataError,
-     "line 18 = 'max_takeoff 2000': not valid TOML: Expected '=' after a key in a key/value pair (column 13)"),
+     "line 18 = 'max_takeoff 2000': not valid TOML: Expected '=' after a key in a key/value pair "
+     "(column 13)"),
     ('tank_arms_twice', TypeDataError,
      "tank['main'].x = 48: give the arms either as x, y, z or in arm_table, not both"),
     ('thousands_separator', UnitError,
-     "limits.max_takeoff = '2,000 lb': commas are not accepted; write a mass without thousands separators and with '.' for decimals, e.g. '82 kg'. Write '2000 lb'"),
+     "limits.max_takeoff = '2,000 lb': commas are not accepted; write a mass without thousands "
+     "separators and with '.' for decimals, e.g. '82 kg'. Write '2000 lb'"),
     ('unknown_category', TypeDataError,
-     "envelope['normal'].category = 'normall': expected one of normal, utility, acrobatic, commuter, transport, restricted. Did you mean 'normal'?"),
+     "envelope['normal'].category = 'normall': expected one of normal, utility, acrobatic, "
+     "commuter, transport, restricted. Did you mean 'normal'?"),
     ('unknown_fluid', TypeDataError,
      "tank['main'].fluid = 'kerosene': expected one of avgas, mogas, jet, oil, water, diesel"),
     ('unknown_occupant', TypeDataError,
      "station['pilot'].occupant = 'pilot': expected one of flight_crew, cabin_crew, adult, child"),
     ('unknown_station_key', TypeDataError,
-     "station['baggage'].max_mas = 100: unknown key; allowed here: name, kind, x, y, z, max_mass, persons, occupant, x_range, floor_area, floor_load_limit, note. Did you mean 'max_mass'?"),
+     "station['baggage'].max_mas = 100: unknown key; allowed here: name, kind, x, y, z, max_mass, "
+     "persons, occupant, x_range, floor_area, floor_load_limit, note. Did you mean 'max_mass'?"),
     ('unknown_top_key', TypeDataError,
-     "staton = [{'name': 'baggage', 'kind': 'cargo', 'x': 95.0, 'max_mas...: unknown key; allowed here: format_version, vehicle, units, datum, mac, limits, station, tank, envelope, reaction_point, inertia, axle, axle_group, configuration, tolerances, mass_set. Did you mean 'station'?"),
+     "staton = [{'name': 'baggage', 'kind': 'cargo', 'x': 95.0, 'max_mas...: unknown key; allowed "
+     "here: format_version, vehicle, units, datum, mac, limits, station, tank, envelope, "
+     "reaction_point, inertia, axle, axle_group, configuration, tolerances, mass_set. Did you mean "
+     "'station'?"),
     ('unknown_unit', UnitError,
      "station['baggage'].max_mass = '100 lbz': unknown unit 'lbz'; mass units: kg, g, t, lb, slug"),
     ('unusable_exceeds_capacity', TypeDataError,
      "tank['main'].unusable = 25: expected less than the capacity (20 USgal)"),
     ('unusable_wrong_dimension', UnitError,
-     "tank['main'].unusable = '6 lb': 'lb' is a unit of mass, not of volume; volume units: m3, L, USgal, impgal, ft3, in3"),
+     "tank['main'].unusable = '6 lb': 'lb' is a unit of mass, not of volume; volume units: m3, L, "
+     "USgal, impgal, ft3, in3"),
     ('vehicle_not_table', TypeDataError,
      "vehicle = 'TEST-A1': expected a table [vehicle], got a string"),
     ('wrong_dimension', UnitError,
-     "tank['main'].x = '48 lb': 'lb' is a unit of mass, not of length; length units: m, cm, mm, in, ft"),
+     "tank['main'].x = '48 lb': 'lb' is a unit of mass, not of length; length units: m, cm, mm, "
+     "in, ft"),
     ('wrong_format_version', TypeDataError,
      'format_version = 2: expected 1; this wbledger reads format_version 1'),
 ]

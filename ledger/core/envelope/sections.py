@@ -90,6 +90,7 @@ class _Best(NamedTuple):
     d: np.ndarray
 
     def consider(self, U: np.ndarray, clo: np.ndarray, chi: np.ndarray, mask: np.ndarray) -> None:
+        """Keep ``[clo, chi]`` where ``mask`` holds and it is nearer than the best so far."""
         valid = mask & np.isfinite(clo)
         dd = np.maximum(clo - U, 0.0) + np.maximum(U - chi, 0.0)
         better = valid & (dd < self.d)

@@ -127,10 +127,12 @@ class SweepEnvelope:
 
     @property
     def polygon(self) -> np.ndarray:
+        """The validated vertices (read-only)."""
         return self._prep.P
 
     @property
     def tol(self) -> float:
+        """The containment tolerance in use."""
         return self._prep.tol
 
     def __repr__(self) -> str:

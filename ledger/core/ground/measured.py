@@ -37,6 +37,7 @@ class CornerWeights:
 
     @property
     def diagonals(self) -> dict[str, float]:
+        """Both diagonal ("cross weight") percentages, named by their corners."""
         return {"RF+LR": self.rf_lr_pct, "LF+RR": self.lf_rr_pct}
 
 

@@ -179,6 +179,7 @@ class Finding:
 
     @property
     def text(self) -> str:
+        """The finding in one line: rule, axles, load against limit, within or over."""
         who = ("axle " if len(self.axles) == 1 else "axles ") + \
               ", ".join(str(i + 1) for i in self.axles)
         state = "within" if self.ok else f"over by {-self.margin:.0f} kg"

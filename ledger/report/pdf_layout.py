@@ -1,0 +1,295 @@
+"""A flowing page layout for the printed sheet, and its drawing with matplotlib.
+
+:class:`Layout` places text, rules, boxes, tables and charts top to bottom in inches, starting
+a new page (PDF) when a block does not fit; it records drawing operations (:class:`Op`) per
+page, which :func:`draw_page` then draws onto a matplotlib figure. Text is measured with
+matplotlib's Agg renderer (:class:`Measure`), so wrapping matches the drawn text. matplotlib is
+imported inside the functions only.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from ledger.report.sheet_charts import ChartData
+from ledger.report.sheet_tables import TableData
+
+__all__ = ["MARGIN", "FOOTER", "SANS", "INK", "GREY", "RULE", "OK", "BAD", "CAUTION_EDGE",
+           "CAUTION_FILL", "Op", "Measure", "Layout", "draw_page", "figure_line"]
+
+MARGIN = 0.6  # in
+FOOTER = 0.76  # in kept free at the bottom of each page
+SANS = "DejaVu Sans"
+INK = "#1a1a1a"
+GREY = "#555555"
+RULE = "#999999"
+OK = "#1b6e2e"
+BAD = "#b00020"
+CAUTION_EDGE = "#8a5a00"
+CAUTION_FILL = "#fff4d6"
+
+
+@dataclass
+class Op:
+    kind: str
+    page: int
+    args: dict = field(default_factory=dict)
+
+
+class Measure:
+    """Text widths in inches, measured with matplotlib's Agg renderer."""
+
+    def __init__(self):
+        from matplotlib.backends.backend_agg import FigureCanvasAgg
+        from matplotlib.figure import Figure
+        from matplotlib.font_manager import FontProperties
+
+        self._fp = FontProperties
+        fig = Figure(figsize=(1, 1), dpi=72)
+        self._renderer = FigureCanvasAgg(fig).get_renderer()
+        self._cache: dict[tuple, float] = {}
+
+    def width(self, text: str, size: float, weight: str = "normal") -> float:
+        key = (text, size, weight)
+        if key not in self._cache:
+            fp = self._fp(family=SANS, size=size, weight=weight)
+            w, _, _ = self._renderer.get_text_width_height_descent(text, fp, ismath=False)
+            self._cache[key] = w / 72.0
+        return self._cache[key]
+
+    def wrap(self, text: str, size: float, width: float, weight: str = "normal") -> list[str]:
+        """Greedy word wrap of ``text`` to ``width`` inches."""
+        out: list[str] = []
+        for para in text.split("\n"):
+            words = para.split()
+            line = ""
+            for w in words:
+                trial = f"{line} {w}" if line else w
+                if line and self.width(trial, size, weight) > width:
+                    out.append(line)
+                    line = w
+                else:
+                    line = trial
+            out.append(line)
+        return out
+
+
+class Layout:
+    """Flows blocks down pages; records drawing operations in inches from the page top."""
+
+    def __init__(self, page_w: float, page_h: float | None):
+        self.w, self.h = page_w, page_h  # page_h None: one endless page (SVG)
+        self.left, self.right = MARGIN, page_w - MARGIN
+        self.cw = self.right - self.left
+        self.page = 0
+        self.y = MARGIN
+        self.ops: list[Op] = []
+        self.m = Measure()
+
+    @property
+    def bottom(self) -> float:
+        return float("inf") if self.h is None else self.h - MARGIN - FOOTER
+
+    def need(self, height: float) -> None:
+        """Start a new page unless ``height`` inches fit below the cursor."""
+        if self.y + height > self.bottom and self.y > MARGIN + 0.01:
+            self.page += 1
+            self.y = MARGIN
+
+    def op(self, kind: str, **args) -> None:
+        self.ops.append(Op(kind, self.page, args))
+
+    def text(self, x, y, s, size=8.0, weight="normal", color=INK, ha="left",
+             style="normal") -> None:
+        self.op("text", x=x, y=y, s=s, size=size, weight=weight, color=color, ha=ha,
+                style=style)
+
+    def rule(self, y, x0=None, x1=None, lw=0.5, color=RULE) -> None:
+        self.op("line", x0=self.left if x0 is None else x0, x1=self.right if x1 is None else x1,
+                y0=y, y1=y, lw=lw, color=color)
+
+    def lh(self, size: float) -> float:
+        return size * 1.32 / 72.0
+
+    def paragraph(self, text, size=8.0, weight="normal", color=INK, indent=0.0,
+                  style="normal", width=None) -> None:
+        lines = self.m.wrap(text, size, (width or self.cw) - indent, weight)
+        self.need(self.lh(size) * len(lines))  # a short paragraph stays on one page
+        for line in lines:
+            self.need(self.lh(size))
+            self.text(self.left + indent, self.y + size / 72.0, line, size, weight, color,
+                      style=style)
+            self.y += self.lh(size)
+
+    def section(self, title: str, keep: float = 0.6) -> None:
+        self.need(0.32 + keep)
+        self.y += 0.12
+        self.text(self.left, self.y + 10 / 72.0, title, 10.5, "bold")
+        self.y += 0.2
+        self.rule(self.y, lw=0.8, color=INK)
+        self.y += 0.06
+
+    def table(self, t: TableData, size: float = 8.0) -> None:
+        pad = 0.2
+        ncol = len(t.headers)
+        head_lines = [h.split("\n") for h in t.headers]
+        nhead = max(len(h) for h in head_lines)
+
+        def widths(sz):
+            ws = []
+            for i in range(ncol):
+                cells = [self.m.width(x, sz, "bold") for x in head_lines[i]]
+                cells += [self.m.width(r[i], sz, "bold" if j in t.bold_rows else "normal")
+                          for j, r in enumerate(t.rows)]
+                ws.append(max(cells + [0.2]) + pad)
+            return ws
+
+        ws = widths(size)
+        while sum(ws) > self.cw and size > 6.0:
+            size -= 0.5
+            ws = widths(size)
+        # Spread the spare width: a third to the label column, the rest evenly.
+        spare = max(0.0, self.cw - sum(ws))
+        ws[0] += spare / 3
+        ws = [w + spare * 2 / 3 / ncol for w in ws]
+        xs = [self.left]
+        for w in ws[:-1]:
+            xs.append(xs[-1] + w)
+        row_h = self.lh(size) + 0.02
+
+        def header():
+            self.need(row_h * (nhead + 1))
+            for k in range(nhead):
+                for i in range(ncol):
+                    lines = head_lines[i]
+                    # bottom-align multi-line headers
+                    idx = k - (nhead - len(lines))
+                    if idx < 0:
+                        continue
+                    self._cell(xs[i], ws[i], self.y + size / 72.0, lines[idx], size, "bold",
+                               i in t.numeric, pad)
+                self.y += self.lh(size)
+            self.y += 0.03
+            self.rule(self.y, lw=0.6, color=INK)
+            self.y += 0.03
+
+        header()
+        # the notes stay on the page of the last row
+        notes_h = sum(self.lh(6.8) * len(self.m.wrap(n, 6.8, self.cw)) for n in t.notes) + 0.07
+        for j, r in enumerate(t.rows):
+            extra = notes_h if j == len(t.rows) - 1 else 0.0
+            if self.y + row_h + extra > self.bottom:
+                self.need(row_h * 3)
+                header()
+            if j in t.bold_rows:
+                self.rule(self.y, lw=0.5)
+                self.y += 0.02
+            weight = "bold" if j in t.bold_rows else "normal"
+            for i in range(ncol):
+                color = BAD if r[i] in ("OUT", "NO") else INK
+                self._cell(xs[i], ws[i], self.y + size / 72.0, r[i], size,
+                           "bold" if color == BAD else weight, i in t.numeric, pad, color)
+            self.y += row_h
+        self.rule(self.y, lw=0.4)
+        self.y += 0.05
+        for n in t.notes:
+            self.paragraph(n, 6.8, color=GREY, style="italic")
+
+    def _cell(self, x, w, y, s, size, weight, numeric, pad, color=INK) -> None:
+        if numeric:
+            self.text(x + w - pad / 2, y, s, size, weight, color, ha="right")
+        else:
+            self.text(x + pad / 2 if x > self.left else x, y, s, size, weight, color)
+
+    def box(self, lines: list[tuple[str, float, str, str]], edge: str, fill: str | None,
+            lw: float = 1.2, pad: float = 0.1) -> None:
+        """A framed block of (text, size, weight, colour) lines, wrapped to the box."""
+        wrapped = []
+        for s, size, weight, color in lines:
+            for line in self.m.wrap(s, size, self.cw - 2 * pad, weight):
+                wrapped.append((line, size, weight, color))
+        h = sum(self.lh(sz) for _, sz, _, _ in wrapped) + 2 * pad
+        self.need(h)
+        self.op("rect", x=self.left, y=self.y, w=self.cw, h=h, edge=edge, fill=fill, lw=lw)
+        y = self.y + pad
+        for line, size, weight, color in wrapped:
+            self.text(self.left + pad, y + size / 72.0, line, size, weight, color)
+            y += self.lh(size)
+        self.y += h + 0.08
+
+
+def draw_page(fig, ops: list[Op], page_w: float, page_h: float) -> None:
+    """Draw the operations of one page onto a figure ``page_w`` × ``page_h`` inches."""
+    from matplotlib.patches import Rectangle
+
+    def fx(x):
+        return x / page_w
+
+    def fy(y):
+        return 1.0 - y / page_h
+
+    for op in ops:
+        a = op.args
+        if op.kind == "text":
+            fig.text(fx(a["x"]), fy(a["y"]), a["s"], fontsize=a["size"], fontweight=a["weight"],
+                     color=a["color"], ha=a["ha"], va="baseline", family=SANS,
+                     fontstyle=a["style"], parse_math=False)
+        elif op.kind == "line":
+            fig.add_artist(figure_line(fig, [fx(a["x0"]), fx(a["x1"])], [fy(a["y0"]), fy(a["y1"])],
+                                 a["lw"], a["color"]))
+        elif op.kind == "rect":
+            fig.add_artist(Rectangle((fx(a["x"]), fy(a["y"] + a["h"])), a["w"] / page_w,
+                                     a["h"] / page_h, transform=fig.transFigure,
+                                     facecolor=a["fill"] or "none", edgecolor=a["edge"],
+                                     linewidth=a["lw"]))
+        elif op.kind == "chart":
+            ax = fig.add_axes((fx(a["x"]) + 0.75 / page_w, fy(a["y"] + a["h"]) + 0.5 / page_h,
+                               (a["w"] - 0.85) / page_w, (a["h"] - 0.8) / page_h))
+            draw_chart(ax, a["chart"])
+
+
+def figure_line(fig, xs, ys, lw, color):
+    from matplotlib.lines import Line2D
+
+    return Line2D(xs, ys, transform=fig.transFigure, linewidth=lw, color=color)
+
+
+def draw_chart(ax, c: ChartData) -> None:
+    if c.polygon:
+        xs = [p[0] for p in c.polygon] + [c.polygon[0][0]]
+        ys = [p[1] for p in c.polygon] + [c.polygon[0][1]]
+        ax.fill(xs, ys, facecolor="#dfe8f3", edgecolor="none", zorder=1)
+        ax.plot(xs, ys, color="#1f3b63", linewidth=1.4, zorder=2, label="envelope")
+    if c.path:
+        ax.plot([p[0] for p in c.path], [p[1] for p in c.path], color="#6b6b6b",
+                linewidth=1.0, linestyle="--", marker=".", markersize=3, zorder=3,
+                label="burn path")
+    outside = {line.split(" ", 1)[0] for line in c.legend if line.endswith("OUTSIDE")}
+    allx = [p[0] for p in c.polygon] + [p[0] for p in c.points]
+    ally = [p[1] for p in c.polygon] + [p[1] for p in c.points]
+    sx = (max(allx) - min(allx)) or 1.0
+    sy = (max(ally) - min(ally)) or 1.0
+    # Labels of points that nearly coincide (ramp and take-off) go to different sides.
+    offsets = [(5, 3), (-11, 3), (5, -10), (-11, -10)]
+    placed: list[tuple[float, float]] = []
+    for x, y, mark in c.points:
+        col = BAD if mark in outside else INK
+        near = sum(1 for px, py in placed if abs(px - x) / sx < 0.04 and abs(py - y) / sy < 0.04)
+        placed.append((x, y))
+        ax.plot([x], [y], marker="o", markersize=4.5, color=col, zorder=5, linestyle="none")
+        ax.annotate(mark, (x, y), xytext=offsets[near % len(offsets)],
+                    textcoords="offset points", fontsize=8, fontweight="bold", color=col,
+                    zorder=7)
+    for x, y in c.exits:
+        ax.plot([x], [y], marker="x", markersize=9, markeredgewidth=1.2, color=BAD, zorder=4,
+                linestyle="none", label="leaves envelope")
+    ax.set_title(c.title, fontsize=9, fontweight="bold", loc="left")
+    ax.set_xlabel(c.x_label, fontsize=7.5)
+    ax.set_ylabel(c.y_label, fontsize=7.5)
+    ax.tick_params(labelsize=7)
+    ax.grid(True, color="#cccccc", linewidth=0.4, zorder=0)
+    ax.set_axisbelow(True)
+    ax.margins(0.08)
+    handles, labels = ax.get_legend_handles_labels()
+    if handles:
+        ax.legend(fontsize=6.5, loc="best", frameon=True, framealpha=0.85)

@@ -1,0 +1,37 @@
+"""The fleet: adding a vehicle, every vehicle's current state, one vehicle in full.
+
+The documents are :func:`ledger.store.views.fleet_view` and
+:func:`ledger.store.views.vehicle_view` (SI values with unit-named keys, and the type's display
+units).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from sqlalchemy.engine import Engine
+
+from ledger.services.database import unit_of_work
+from ledger.store.catalog import add_vehicle as _add_vehicle
+from ledger.store.views import fleet_view, vehicle_view
+
+__all__ = ["add_vehicle", "fleet", "vehicle"]
+
+
+def add_vehicle(engine: Engine, registration: str, type_name: str, *,
+                serial: str | None = None, note: str | None = None) -> None:
+    """Add a vehicle of an imported type."""
+    with unit_of_work(engine) as session:
+        _add_vehicle(session, registration, type_name, serial=serial, note=note)
+
+
+def fleet(engine: Engine) -> list[dict[str, Any]]:
+    """Every vehicle: type, current empty mass and CG, last weighing, warnings."""
+    with unit_of_work(engine) as session:
+        return fleet_view(session)
+
+
+def vehicle(engine: Engine, registration: str) -> dict[str, Any]:
+    """One vehicle: type, current empty state, last weighing, items, recent entries."""
+    with unit_of_work(engine) as session:
+        return vehicle_view(session, registration)

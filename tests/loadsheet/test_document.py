@@ -1,0 +1,97 @@
+"""The types of ledger.loadsheet.document say exactly which keys build_sheet writes.
+
+The document stays a plain dict (its JSON is pinned by docs/sheet-document.md); these tests
+keep the TypedDicts honest: every key a built sheet has is declared, and every declared key
+that is not marked NotRequired is there, down through phases, violations, fixes and axles.
+The sheets are the demo fleet's invented plans: in limits, out of limits with fixes, lateral,
+and a ground vehicle with axles.
+"""
+
+from __future__ import annotations
+
+import json
+import types
+import typing
+from pathlib import Path
+
+import pytest
+
+from ledger.loadsheet import EmptyWeight, build_sheet
+from ledger.loadsheet.document import SheetDocument
+from ledger.typedata import load_type_file
+from ledger.typedata.plan import parse_plan, read_plan_file
+
+FLEET = Path(__file__).resolve().parents[2] / "demo_fleet"
+
+
+def _typed_dicts(annotation) -> list:
+    """The TypedDicts an annotation holds (through lists, dicts and ``| None``)."""
+    if typing.is_typeddict(annotation):
+        return [annotation]
+    out = []
+    for arg in typing.get_args(annotation):
+        out += _typed_dicts(arg)
+    return out
+
+
+def _check(value, td, where: str) -> int:
+    """Assert ``value`` has the keys of TypedDict ``td``; recurse; count the dicts checked."""
+    assert isinstance(value, dict), where
+    missing = td.__required_keys__ - set(value)
+    extra = set(value) - td.__required_keys__ - td.__optional_keys__
+    assert not missing and not extra, f"{where} ({td.__name__}): missing {missing}, extra {extra}"
+    hints = typing.get_type_hints(td)
+    checked = 1
+    for key, item in value.items():
+        inner = _typed_dicts(hints[key])
+        if not inner or item is None:
+            continue
+        items = item if isinstance(item, list) else [item]
+        for i, one in enumerate(items):
+            if isinstance(one, dict):
+                checked += _check(one, inner[0], f"{where}.{key}[{i}]")
+    return checked
+
+
+def _demo_sheet(plan_name: str, type_file: str, empty: EmptyWeight) -> dict:
+    vtype = load_type_file(FLEET / type_file)
+    plan = parse_plan(read_plan_file(FLEET / "plans" / plan_name), vtype, source=plan_name)
+    return build_sheet(vtype, empty, plan, prepared_by="T. Tester",
+                       prepared_at="2026-12-01T09:00:00+00:00", type_revision=1,
+                       registration="KVA-TEST")
+
+
+@pytest.mark.parametrize("plan_name, type_file, empty", [
+    # The demo's first weighings (demo_fleet/README.md); the truck also with its empty CG
+    # moved aft until the rear axle is over its rating, to get axle violations and fixes.
+    ("kva-101-local.toml", "kv-p4.toml", EmptyWeight(736.18041651, 732.975922493661,
+                                                      2.6959716103319806, seq=3)),
+    ("kva-101-aft-cg.toml", "kv-p4.toml", EmptyWeight(736.18041651, 732.975922493661,
+                                                       2.6959716103319806, seq=3)),
+    ("kva-201-charter.toml", "kv-t20.toml", EmptyWeight(3450.0, 26047.5, 33.6, seq=1)),
+    ("kva-301-lateral.toml", "kv-h2.toml", EmptyWeight(458.1282937, 1216.0675361989,
+                                                         2.13143054663, seq=1)),
+    ("kva-t75-delivery.toml", "kv-tr75.toml", EmptyWeight(3519.2, 5102.82, -70.59,
+                                                            3583.6648644485613, True, seq=1)),
+    ("kva-t75-delivery.toml", "kv-tr75.toml", EmptyWeight(3519.2, 3519.2 * 2.9, -70.59,
+                                                            seq=1)),
+])
+def test_every_key_of_a_built_sheet_is_declared(plan_name, type_file, empty):
+    doc = _demo_sheet(plan_name, type_file, empty)
+    assert _check(doc, SheetDocument, "doc") > 10
+    if "aft-cg" in plan_name or "lateral" in plan_name or doc["axles"] and doc["violations"]:
+        assert doc["violations"] and doc["fixes"]  # the parts that are checked here too
+    assert json.loads(json.dumps(doc)) == doc  # and it is still plain JSON
+
+
+def test_the_optional_keys_are_the_ones_the_notes_name():
+    assert SheetDocument.__optional_keys__ == {"amendment"}
+    hints = typing.get_type_hints(SheetDocument)
+    phase = _typed_dicts(hints["phases"])[0]
+    assert phase.__optional_keys__ == {"axles"}
+    violation = _typed_dicts(hints["violations"])[0]
+    assert violation.__optional_keys__ == {"envelope", "axis", "side", "first_exit", "station",
+                                           "tank", "axle"}
+    fix = _typed_dicts(hints["fixes"])[0]
+    assert fix.__optional_keys__ == {"tanks_kg", "distance_m", "steps"}
+    assert isinstance(hints["axles"], types.UnionType)
