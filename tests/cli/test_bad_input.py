@@ -36,13 +36,13 @@ from tests.conftest import DEMO_FLEET
 P4, TR75 = DEMO_FLEET / "kv-p4.toml", DEMO_FLEET / "kv-tr75.toml"
 PLAN = DEMO_FLEET / "plans" / "kva-101-local.toml"
 WEIGHED, CHANGED = "2025-01-10", "2025-01-11"
-P4_READINGS = ["--reading", "nose=480 lb", "--reading", "left main=572 lb",
-               "--reading", "right main=576.5 lb"]
-T75_READINGS = ["--reading", "front left=1198 kg", "--reading", "front right=1069 kg",
-                "--reading", "rear left=726 kg", "--reading", "rear right=648 kg"]
-CORNERS = ["--lf", "1198 kg", "--rf", "1069 kg", "--lr", "726 kg"]
-LIFT = ["--front-level", "2211 kg", "--rear-level", "1308 kg", "--front-tilted", "2289.5 kg",
-        "--wheel-radius", "0.40 m"]
+P4_READINGS = ["--reading", "nose=336.5 lb", "--reading", "left main=603.5 lb",
+               "--reading", "right main=605 lb"]
+T75_READINGS = ["--reading", "front left=1052 kg", "--reading", "front right=949 kg",
+                "--reading", "rear left=790 kg", "--reading", "rear right=739 kg"]
+CORNERS = ["--lf", "1052 kg", "--rf", "949 kg", "--lr", "790 kg"]
+LIFT = ["--front-level", "1951 kg", "--rear-level", "1469 kg", "--front-tilted", "2022 kg",
+        "--wheel-radius", "0.39 m"]
 R = ["--reason", "qa"]
 INSTALL = ["install", "KVA-101", "radio", "--arm", "100 in", *R]
 VEHICLES = "Known vehicles: KVA-101, KVA-T75"
@@ -59,9 +59,9 @@ def _seed(url: str) -> None:
              ["vehicle", "add", "KVA-101", "--type", "KV-P4"],
              ["vehicle", "add", "KVA-T75", "--type", "KV-TR75"],
              ["weigh", "KVA-101", *P4_READINGS, "--date", WEIGHED, *R],
-             ["weigh", "KVA-T75", *T75_READINGS, "--fuel", "diesel=150 L", "--date", WEIGHED,
+             ["weigh", "KVA-T75", *T75_READINGS, "--fuel", "diesel=135 L", "--date", WEIGHED,
               *R],
-             ["install", "KVA-101", "ELT", "--mass", "3.5 lb", "--arm", "130 in",
+             ["install", "KVA-101", "ELT", "--mass", "2.9 lb", "--arm", "171.5 in",
               "--date", CHANGED, *R],
              ["sheet", "prepare", str(PLAN), "--save"]]
     for args in steps:
@@ -244,11 +244,11 @@ CASES = [
     (["weigh", "KVA-101", *P4_READINGS[:4], *R],
      "Error: --reading = 'right main': missing; type KV-P4 is weighed at nose, left main, right "
      "main: give one --reading POINT=MASS for each", 2),
-    (["weigh", "KVA-101", *P4_READINGS, "--tare", "nose=500 lb", *R],
-     "Error: net reaction at 'nose' = -20: a net reading of 0 lb or more (reading 480.00 lb − "
-     "tare 500.00 lb). Check the tare and the scale zero", 2),
+    (["weigh", "KVA-101", *P4_READINGS, "--tare", "nose=356.5 lb", *R],
+     "Error: net reaction at 'nose' = -20: a net reading of 0 lb or more (reading 336.50 lb − "
+     "tare 356.50 lb). Check the tare and the scale zero", 2),
     (["weigh", "KVA-101", *P4_READINGS, "--fuel", "left wing=100 USgal", *R],
-     "Error: --fuel left wing = '100 USgal': at most the tank's capacity (26.5 USgal)", 2),
+     "Error: --fuel left wing = '100 USgal': at most the tank's capacity (24.8 USgal)", 2),
     (["correct", "KVA-101", "abc", *R],
      "Error: Invalid value for 'SEQ': Input should be a valid integer, unable to parse string as "
      "an integer (see `wbledger correct --help`)", 2),
@@ -339,20 +339,21 @@ CASES = [
      "p…': text without NUL characters", 2),
     (["sheet", "{tmp}/nul-plan.toml", "--save"],
      "Error: {tmp}/nul-plan.toml: prepared_by = 'R.\\x00': text without NUL characters", 2),
-    # KV-P4's largest maximum mass is its maximum ramp mass, 2458 lb = 1114.9 kg (demo type).
-    (["weigh", "KVA-101", "--reading", "nose=480000 lb", "--reading", "left main=572000 lb",
-      "--reading", "right main=576500 lb", *R],
-     "Error: empty mass = '1628500.0 lb': an empty mass above 0 and at most the largest "
-     "maximum mass of type KV-P4, 2458.0 lb (maximum ramp mass). The readings were nose=480000 "
-     "lb, left main=572000 lb, right main=576500 lb: check each, and the unit of the scales", 2),
+    # KV-P4's largest maximum mass is its maximum ramp mass, 2322 lb = 2322 x 0.45359237 kg
+    # = 1053.2 kg (demo type); the readings sum to 336500 + 603500 + 605000 = 1545000 lb.
+    (["weigh", "KVA-101", "--reading", "nose=336500 lb", "--reading", "left main=603500 lb",
+      "--reading", "right main=605000 lb", *R],
+     "Error: empty mass = '1545000.0 lb': an empty mass above 0 and at most the largest "
+     "maximum mass of type KV-P4, 2322.0 lb (maximum ramp mass). The readings were nose=336500 "
+     "lb, left main=603500 lb, right main=605000 lb: check each, and the unit of the scales", 2),
     (["weigh", "KVA-101", "--reading", "nose=1e308 lb", "--reading", "left main=1e308 lb",
       "--reading", "right main=1e308 lb", *R],
      "Error: empty mass = 'inf lb': an empty mass above 0 and at most the largest maximum mass "
-     "of type KV-P4, 2458.0 lb (maximum ramp mass). The readings were nose=1e308 lb, left "
+     "of type KV-P4, 2322.0 lb (maximum ramp mass). The readings were nose=1e308 lb, left "
      "main=1e308 lb, right main=1e308 lb: check each, and the unit of the scales", 2),
     (["import-history", "KVA-101", "{tmp}/heavy.json"],
      "Error: heavy.json line 1: empty_mass_kg = 100000: an empty mass above 0 and at most the "
-     "largest maximum mass of type KV-P4, 1114.9 kg (maximum ramp mass)", 2),
+     "largest maximum mass of type KV-P4, 1053.2 kg (maximum ramp mass)", 2),
     # --- configurations ---------------------------------------------------------------------
     (["config", "define", "x", "--type", "NOPE", "--install", "a=1 kg@1 m"],
      "Error: no vehicle type 'NOPE'. Known types: KV-P4, KV-TR75", 2),
@@ -379,8 +380,8 @@ CASES = [
      "Error: --person = 'pilot=nan kg': not a finite number; a mass must be a finite number", 2),
     (["check", "KVA-101", "--fuel", "left wing=100 USgal"],
      "Error: --fuel = 'left wing=100 USgal': at most the usable capacity of tank 'left wing', "
-     "25 USgal (capacity 26.5 USgal less 1.5 USgal unusable, which the empty weight includes). "
-     "Reduce the fuel by 75 USgal", 2),
+     "23.5 USgal (capacity 24.8 USgal less 1.3 USgal unusable, which the empty weight includes). "
+     "Reduce the fuel by 76.5 USgal", 2),
     (["check", "KVA-101", "--fuel", "left wing=10 USgal", "--trip", "30 USgal"],
      "Error: --trip = '30 USgal': at most the usable fuel on board in the fuel tanks, 10 USgal. "
      "Add fuel or reduce the trip fuel", 2),
@@ -397,8 +398,8 @@ CASES = [
     (["sheet", "show", "99"],
      "Error: no loading sheet 99. List saved sheets with `wbledger sheet list`", 2),
     (["sheet", "amend", "1", "--person", "pilot=250 lb"],
-     "Error: the change to sheet 1 is beyond the last-minute tolerance of type KV-P4 (20.0 lb "
-     "and 0 persons): it changes 70.0 lb and 0 persons; prepare a new sheet with `wbledger sheet "
+     "Error: the change to sheet 1 is beyond the last-minute tolerance of type KV-P4 (15.0 lb "
+     "and 0 persons): it changes 74.0 lb and 0 persons; prepare a new sheet with `wbledger sheet "
      "PLAN --save`", 2),
     # --- inertia and ground vehicles ----------------------------------------------------------
     (["inertia", "KVA-101", "--assume-z", "nan in"],
@@ -406,8 +407,8 @@ CASES = [
     (["inertia", "KVA-101", "--assume-z", "30 in", "--csv", "{tmp}/no-folder/i.csv"],
      "Error: --csv = '{tmp}/no-folder/i.csv': a file that can be written (No such file or "
      "directory)", 2),
-    (["corners", "KVA-T75", *CORNERS, "--rr", "-648 kg"],
-     "Error: --rr = '-648 kg': a mass of 0 or more", 2),
+    (["corners", "KVA-T75", *CORNERS, "--rr", "-739 kg"],
+     "Error: --rr = '-739 kg': a mass of 0 or more", 2),
     (["cg-height", "KVA-T75", *LIFT, "--angle", "8 deg", "--wheel-radius", "-0.4 m",
       "--dry-run"], "Error: --wheel-radius = '-0.4 m': a length greater than 0", 2),
     (["cg-height", "KVA-T75", *LIFT, "--angle", "95 deg", "--dry-run"],

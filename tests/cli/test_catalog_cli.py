@@ -29,10 +29,10 @@ def test_init_then_import_list_show(cli):
         ("KV-P4", 1, "airplane", 0)]
     doc = json.loads(cli("type", "show", "KV-P4", "--json").stdout)
     assert doc["revision"] == 1 and doc["spec"]["name"] == "KV-P4"
-    # Explicit unit names in the JSON: SI keys, e.g. max_takeoff_kg (2450 lb, NIST SP 811).
-    assert abs(doc["spec"]["limits"]["max_takeoff_kg"] - 2450 * 0.45359237) < 1e-9
+    # Explicit unit names in the JSON: SI keys, e.g. max_takeoff_kg (2315 lb, NIST SP 811).
+    assert abs(doc["spec"]["limits"]["max_takeoff_kg"] - 2315 * 0.45359237) < 1e-9
     text = cli("type", "show", "KV-P4").stdout
-    assert "max take-off 2450 lb" in text
+    assert "max take-off 2315 lb" in text
 
 
 def test_changed_type_file_makes_a_new_revision(cli, tmp_path):

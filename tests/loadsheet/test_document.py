@@ -61,20 +61,28 @@ def _demo_sheet(plan_name: str, type_file: str, empty: EmptyWeight) -> dict:
                        registration="KVA-TEST")
 
 
+def _empty(mass: float, x: float, y: float, unit: tuple[float, float],
+           z: float | None = None) -> EmptyWeight:
+    """The empty weight from a mass and CG in display units: ``unit`` = (kg per mass unit,
+    m per length unit); the moments are mass × arm (FAA-H-8083-1)."""
+    kg, m = mass * unit[0], (x * unit[1], y * unit[1])
+    return EmptyWeight(kg, kg * m[0], kg * m[1], 0.0 if z is None else kg * z, z is not None,
+                       seq=1)
+
+
+LB_IN, KG_M = (0.45359237, 0.0254), (1.0, 1.0)  # NIST SP 811 factors
+
+
 @pytest.mark.parametrize("plan_name, type_file, empty", [
-    # The demo's first weighings (demo_fleet/README.md); the truck also with its empty CG
-    # moved aft until the rear axle is over its rating, to get axle violations and fixes.
-    ("kva-101-local.toml", "kv-p4.toml", EmptyWeight(736.18041651, 732.975922493661,
-                                                      2.6959716103319806, seq=3)),
-    ("kva-101-aft-cg.toml", "kv-p4.toml", EmptyWeight(736.18041651, 732.975922493661,
-                                                       2.6959716103319806, seq=3)),
-    ("kva-201-charter.toml", "kv-t20.toml", EmptyWeight(3450.0, 26047.5, 33.6, seq=1)),
-    ("kva-301-lateral.toml", "kv-h2.toml", EmptyWeight(458.1282937, 1216.0675361989,
-                                                         2.13143054663, seq=1)),
-    ("kva-t75-delivery.toml", "kv-tr75.toml", EmptyWeight(3519.2, 5102.82, -70.59,
-                                                            3583.6648644485613, True, seq=1)),
-    ("kva-t75-delivery.toml", "kv-tr75.toml", EmptyWeight(3519.2, 3519.2 * 2.9, -70.59,
-                                                            seq=1)),
+    # The demo's first weighings (demo_fleet/README.md: KVA-101 with its ELT, 1540.4 lb at
+    # 86.48 in); the truck also with its empty CG moved aft (x 4.2 m, 3.02 m behind the front
+    # axle) until the rear axle is over its rating, to get axle violations and fixes.
+    ("kva-101-local.toml", "kv-p4.toml", _empty(1540.4, 86.48, 0.05, LB_IN)),
+    ("kva-101-aft-cg.toml", "kv-p4.toml", _empty(1540.4, 86.48, 0.05, LB_IN)),
+    ("kva-201-charter.toml", "kv-t20.toml", _empty(3310.0, 7.3302, 0.0031, KG_M)),
+    ("kva-301-lateral.toml", "kv-h2.toml", _empty(930.0, 77.97, 0.19, LB_IN)),
+    ("kva-t75-delivery.toml", "kv-tr75.toml", _empty(3420.0, 2.9499, -0.0105, KG_M, z=1.087)),
+    ("kva-t75-delivery.toml", "kv-tr75.toml", _empty(3420.0, 4.2, -0.0105, KG_M)),
 ])
 def test_every_key_of_a_built_sheet_is_declared(plan_name, type_file, empty):
     doc = _demo_sheet(plan_name, type_file, empty)

@@ -41,6 +41,11 @@ def test_each_file_says_it_is_invented(path):
     text = path.read_text(encoding="utf-8")
     assert "Kestrel Valley Air & Freight (invented)" in text
     assert "NOT FOR OPERATIONAL USE" in text
+    # issue 13 item 22: the header says that the type, the operator and every figure are
+    # invented and match no real type
+    header = " ".join(line.lstrip("# ") for line in text.splitlines()[:6])
+    assert "The type and the operator are INVENTED" in header
+    assert "every figure" in header and "match no real" in header
     t = load_type_file(path)
     assert "(invented)" in t.title
     assert t.note == "Invented demo type. Not for operational use."
@@ -70,34 +75,34 @@ def test_piston_single(fleet):
     assert [p.name for p in t.reaction_points] == ["nose", "left main", "right main"]
     normal = Polygon(t.envelope("normal").points)
     assert normal.area < normal.convex_hull.area  # the forward limit has a dent
-    assert t.envelope("utility").points[2][1] == pytest.approx(from_unit(2100, "lb"))
+    assert t.envelope("utility").points[2][1] == pytest.approx(1985 * 0.45359237)  # NIST SP 811
     assert t.configuration("rear-seats-out").disables_stations == ("rear left", "rear right")
-    assert t.tolerances.reweigh_cg_shift_m == pytest.approx(0.5 * 0.0254)
+    assert t.tolerances.reweigh_cg_shift_m == pytest.approx(0.4 * 0.0254)
 
 
 def test_twin_turboprop(fleet):
     t = fleet["KV-T20"]
     assert (t.units.mass, t.units.length) == ("kg", "m")
-    assert t.mac.lemac_m == 7.10 and t.mac.length_m == 1.95
-    assert t.limits.max_zero_fuel_kg == 4850.0
+    assert t.mac.lemac_m == 6.84 and t.mac.length_m == 1.87
+    assert t.limits.max_zero_fuel_kg == 4560.0
     cargo = [s for s in t.stations if s.kind == "cargo"]
     assert len(cargo) == 3 and all(s.extent and s.extent.floor_load_limit_kg_m2 for s in cargo)
     wings = [t.tank("left wing"), t.tank("right wing")]
     assert all(w.fluid == "jet" and len(w.arm_table) >= 3 for w in wings)
     xs = {w.arms_at(w.quantity_of(m))[0] for w in wings for m in (100.0, 400.0, 800.0)}
     assert len(xs) > 1  # the arm changes with quantity
-    # forward limit 8 %MAC at the low-mass corner
+    # forward limit at the low-mass corner: (7.062 - 6.84) / 1.87 x 100 = 11.87 %MAC
     env = t.envelope("normal")
-    assert t.mac.percent_mac(env.points[0][0]) == pytest.approx(8.0, abs=1e-9)
-    assert t.tolerances.reweigh_cg_percent_mac == 0.5
-    assert t.mass_set("kestrel-2024-survey").mass_for("adult") == 84.0
+    assert t.mac.percent_mac(env.points[0][0]) == pytest.approx(0.222 / 1.87 * 100, abs=1e-9)
+    assert t.tolerances.reweigh_cg_percent_mac == 0.4
+    assert t.mass_set("kestrel-2024-survey").mass_for("adult") == 81.0
 
 
 def test_helicopter_has_lateral_envelope(fleet):
     t = fleet["KV-H2"]
     assert t.kind == "helicopter"
     assert len(t.envelopes_for("lateral")) == 1 and len(t.envelopes_for("longitudinal")) == 1
-    assert t.inertia.basis == "measured" and t.inertia.ixz_kg_m2 == 45.0
+    assert t.inertia.basis == "measured" and t.inertia.ixz_kg_m2 == 38.0
 
 
 def test_drone(fleet):
@@ -105,20 +110,21 @@ def test_drone(fleet):
     assert t.units.length == "mm" and t.tanks == ()
     env = t.envelope("longitudinal")
     assert env.coordinates == "moment"
-    # ±15 mm at 2.5 kg written as moment indices -37.5 / 37.5 kg*mm
-    assert env.points[0] == (pytest.approx(-37.5e-3), 2.5)
+    # -14 mm at 2.2 kg written as the moment index -14 x 2.2 = -30.8 kg*mm
+    assert env.points[0] == (pytest.approx(-14 * 2.2 * 1e-3), 2.2)
     assert t.station("battery bay").kind == "equipment"
-    assert t.inertia.izz_kg_m2 == 0.151
+    assert t.inertia.izz_kg_m2 == 0.137
 
 
 def test_truck(fleet):
     t = fleet["KV-TR75"]
-    assert t.kind == "ground_vehicle" and t.limits.gross_rating_kg == 7490.0
+    assert t.kind == "ground_vehicle" and t.limits.gross_rating_kg == 7280.0
     assert [(a.name, a.x_m, a.rating_kg) for a in t.axles] == \
-        [("front", 0.0, 3100.0), ("rear", 3.90, 5200.0)]
+        [("front", 1.18, 2950.0), ("rear", 5.30, 5050.0)]
     box = t.station("cargo box")
+    # a 5.20 m x 2.14 m floor: 11.128 m2
     assert (box.extent.x_min_m, box.extent.x_max_m, box.extent.floor_area_m2) == \
-        (1.05, 6.05, pytest.approx(10.8))
+        (2.43, 7.63, pytest.approx(5.20 * 2.14))
     assert t.tank("diesel").fluid == "diesel" and t.tank("diesel").density_kg_m3 == 840.0
     assert t.envelopes == ()
 
@@ -232,17 +238,17 @@ def _in_envelopes(t, m, x, y) -> dict[str, bool]:
 def test_p4_loads(fleet, empties):
     t = fleet["KV-P4"]
     empty = empties["KV-P4"]
-    typical = [empty, _seat(t, "pilot", 180, "lb"), _seat(t, "front passenger", 160, "lb"),
-               _seat(t, "rear left", 150, "lb"), _seat(t, "baggage", 40, "lb"),
-               _fuel(t, "left wing", 21.5), _fuel(t, "right wing", 21.5)]
+    typical = [empty, _seat(t, "pilot", 176, "lb"), _seat(t, "front passenger", 158, "lb"),
+               _seat(t, "rear left", 149, "lb"), _seat(t, "baggage", 38, "lb"),
+               _fuel(t, "left wing", 18.5), _fuel(t, "right wing", 18.5)]
     m, x, y = _total(typical)
     assert m <= t.limits.max_ramp_kg and _in_envelopes(t, m, x, y)["normal"]
     over = [empty] + [_seat(t, s, 190, "lb") for s in
                       ("pilot", "front passenger", "rear left", "rear right")] + \
-        [_seat(t, "baggage", 100, "lb"), _fuel(t, "left wing", 26.5), _fuel(t, "right wing", 26.5)]
+        [_seat(t, "baggage", 95, "lb"), _fuel(t, "left wing", 24.8), _fuel(t, "right wing", 24.8)]
     assert _total(over)[0] > t.limits.max_takeoff_kg
-    aft = [empty, _seat(t, "pilot", 170, "lb"), _seat(t, "rear left", 200, "lb"),
-           _seat(t, "rear right", 200, "lb"), _seat(t, "baggage", 120, "lb"),
+    aft = [empty, _seat(t, "pilot", 172, "lb"), _seat(t, "rear left", 206, "lb"),
+           _seat(t, "rear right", 198, "lb"), _seat(t, "baggage", 95, "lb"),
            _fuel(t, "left wing", 5), _fuel(t, "right wing", 5)]
     m, x, y = _total(aft)
     assert m <= t.limits.max_takeoff_kg and not _in_envelopes(t, m, x, y)["normal"]
@@ -251,20 +257,20 @@ def test_p4_loads(fleet, empties):
 
 def test_t20_loads(fleet, empties):
     t = fleet["KV-T20"]
-    zf = [empties["KV-T20"], _seat(t, "captain", 86, "kg"), _seat(t, "first officer", 86, "kg")] \
-        + [_seat(t, s, 84, "kg") for s in ("1A", "1C", "2A", "2C", "3A", "3C")] \
-        + [_seat(t, "aft cabin", 150, "kg"), _seat(t, "nose locker", 80, "kg")]
+    zf = [empties["KV-T20"], _seat(t, "captain", 88, "kg"), _seat(t, "first officer", 88, "kg")] \
+        + [_seat(t, s, 81, "kg") for s in ("1A", "1C", "2A", "2C", "3A", "3C")] \
+        + [_seat(t, "aft cabin", 165, "kg"), _seat(t, "nose locker", 65, "kg")]
     m, x, y = _total(zf)
     assert m <= t.limits.max_zero_fuel_kg and _in_envelopes(t, m, x, y)["normal"]
-    ramp = zf + [_fuel(t, "left wing", 760), _fuel(t, "right wing", 760)]
+    ramp = zf + [_fuel(t, "left wing", 680), _fuel(t, "right wing", 680)]
     m, x, y = _total(ramp)
     assert m <= t.limits.max_ramp_kg and _in_envelopes(t, m, x, y)["normal"]
     assert 10 < t.mac.percent_mac(x) < 30
-    landing = zf + [_fuel(t, "left wing", 300), _fuel(t, "right wing", 300)]
+    landing = zf + [_fuel(t, "left wing", 260), _fuel(t, "right wing", 260)]
     m, x, y = _total(landing)
     assert m <= t.limits.max_landing_kg and _in_envelopes(t, m, x, y)["normal"]
-    full = [empties["KV-T20"], _seat(t, "captain", 86, "kg"), _seat(t, "first officer", 86, "kg")] \
-        + [_seat(t, s.name, 84, "kg") for s in t.stations if s.kind == "passenger"] \
+    full = [empties["KV-T20"], _seat(t, "captain", 88, "kg"), _seat(t, "first officer", 88, "kg")] \
+        + [_seat(t, s.name, 81, "kg") for s in t.stations if s.kind == "passenger"] \
         + [_seat(t, s.name, s.max_mass_kg, "kg") for s in t.stations if s.kind == "cargo"]
     assert _total(full)[0] > t.limits.max_zero_fuel_kg
     assert _total(full + [_fuel(t, "left wing", 1000), _fuel(t, "right wing", 1000)])[0] > \
@@ -279,21 +285,21 @@ def test_h2_loads(fleet, empties):
     m, x, y = _total(typical)
     assert t.limits.min_flight_kg <= m <= t.limits.max_takeoff_kg
     assert _in_envelopes(t, m, x, y) == {"longitudinal": True, "lateral": True}
-    right = [empty, _seat(t, "pilot", 250, "lb"), _fuel(t, "auxiliary", 10.5),
-             _seat(t, "baggage right", 50, "lb")]
+    right = [empty, _seat(t, "pilot", 250, "lb"), _fuel(t, "auxiliary", 9.6),
+             _seat(t, "baggage right", 45, "lb")]
     m, x, y = _total(right)
     assert _in_envelopes(t, m, x, y) == {"longitudinal": True, "lateral": False}
     over = [empty, _seat(t, "pilot", 230, "lb"), _seat(t, "passenger", 230, "lb"),
-            _seat(t, "baggage left", 50, "lb"), _seat(t, "baggage right", 50, "lb"),
-            _fuel(t, "main", 19.2), _fuel(t, "auxiliary", 10.5)]
+            _seat(t, "baggage left", 45, "lb"), _seat(t, "baggage right", 45, "lb"),
+            _fuel(t, "main", 17.4), _fuel(t, "auxiliary", 9.6)]
     assert _total(over)[0] > t.limits.max_takeoff_kg
 
 
 def test_d7_loads(fleet, empties):
     t = fleet["KV-D7"]
     empty = empties["KV-D7"]
-    typical = [empty, _seat(t, "battery bay", 1.35, "kg"), _seat(t, "payload", 1.2, "kg"),
-               _seat(t, "gimbal", 0.6, "kg")]
+    typical = [empty, _seat(t, "battery bay", 1.30, "kg"), _seat(t, "payload", 0.85, "kg"),
+               _seat(t, "gimbal", 0.55, "kg")]
     m, x, y = _total(typical)
     assert m <= t.limits.max_takeoff_kg
     assert _in_envelopes(t, m, x, y) == {"longitudinal": True, "lateral": True}
@@ -313,9 +319,9 @@ def test_tr75_loads(fleet, empties):
         return m, m - w_rear, w_rear
 
     base = [empties["KV-TR75"], _seat(t, "driver", 85, "kg"), _seat(t, "cab passenger", 80, "kg")]
-    m, wf, wr = axle_loads(base + [_seat(t, "cargo box", 3000, "kg"), _fuel(t, "diesel", 120)])
+    m, wf, wr = axle_loads(base + [_seat(t, "cargo box", 2900, "kg"), _fuel(t, "diesel", 110)])
     assert m <= t.limits.gross_rating_kg and wf <= front.rating_kg and wr <= rear.rating_kg
     box = t.station("cargo box")
-    assert 3000 / box.extent.floor_area_m2 <= box.extent.floor_load_limit_kg_m2
-    m, wf, wr = axle_loads(base + [(4000.0, 4.6, 0.0), _fuel(t, "diesel", 150)])
+    assert 2900 / box.extent.floor_area_m2 <= box.extent.floor_load_limit_kg_m2
+    m, wf, wr = axle_loads(base + [(3850.0, 7.2, 0.0), _fuel(t, "diesel", 135)])
     assert m > t.limits.gross_rating_kg and wr > rear.rating_kg

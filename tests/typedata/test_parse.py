@@ -550,7 +550,7 @@ def test_format_page_example_parses():
     assert len(blocks) == 1
     t = parse_type_text(blocks[0], source="FORMAT.md")
     assert t.name == "EX-1" and t.station("baggage").extent.floor_area_m2 == \
-        pytest.approx(5 * 0.3048 ** 2)
+        pytest.approx(4.1 * 0.3048 ** 2)
 
 
 def test_format_page_documents_every_key():
