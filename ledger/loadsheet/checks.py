@@ -144,7 +144,7 @@ def _mass_range_violation(vtype: VehicleType, env: Envelope, base: _Subject, whe
                            f"envelope ({mass_text(top, du)} at {what} "
                            f"{length_text(cg_v, du)}) by {excess_text(mass_text, -to_max, du)}"}
     if to_min is not None and to_min < 0:
-        bottom = mass + to_min
+        bottom = mass - to_min  # to_min = mass − the envelope's bottom at this CG
         return {**base, "side": "below", "limit": bottom, "actual": mass, "excess": -to_min,
                 "unit": "kg",
                 "message": f"{title} mass {mass_text(mass, du)} is below the {env.name} "
