@@ -12,7 +12,7 @@ import math
 from typing import Any
 
 from ledger.loadsheet.text import volume_decimals
-from ledger.units import DisplayUnits, display_decimals, to_unit
+from ledger.units import DisplayUnits, display_decimals, fixed, to_unit
 
 __all__ = ["DASH", "DisplayFormat", "fixed", "number"]
 
@@ -28,16 +28,6 @@ def number(v: Any) -> float | None:
     except (TypeError, ValueError):
         return None
     return f if math.isfinite(f) else None
-
-
-def fixed(v: float, decimals: int, signed: bool = False) -> str:
-    """``v`` with ``decimals`` decimals; never ``-0.0``, and no sign on a zero."""
-    text = f"{v:+.{decimals}f}" if signed else f"{v:.{decimals}f}"
-    if float(text) == 0.0:  # no "-0.0", and no sign on a zero
-        text = text.lstrip("+-")
-    return text
-
-
 
 
 class DisplayFormat:

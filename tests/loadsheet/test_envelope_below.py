@@ -23,4 +23,4 @@ def test_below_the_envelope_names_its_bottom_as_the_limit():
     assert_close(v["limit"] / LB, 5000.0, unit="lb", rtol=1e-9)
     assert_close(v["actual"] / LB, 4000.0, unit="lb", rtol=1e-9)
     assert_close(v["excess"] / LB, 1000.0, unit="lb", rtol=1e-9)
-    assert "(5000 lb at CG" in v["message"] or "(5,000 lb at CG" in v["message"]
+    assert "(5000 lb at CG 80.00 in)" in v["message"]
