@@ -56,6 +56,11 @@ class DisplayFormat:
                        for p in doc.get("phases") or []] + [0.0])
         self._id = 2 if biggest < 1000 else 1 if biggest < 100000 else 0
 
+    @property
+    def mass_decimals(self) -> int:
+        """Decimals of a mass in the display unit (as :meth:`mass` shows it)."""
+        return self._md
+
     def mass(self, kg, signed: bool = False) -> str:
         """A mass in the display unit, without the unit (the column header carries it)."""
         v = number(kg)
