@@ -16,7 +16,7 @@ from ledger.core.envelope import margins
 from ledger.loadsheet.document import GROUND_PHASES, EnvelopeResult, StationDoc, Vector, Violation
 from ledger.loadsheet.inputs import finite
 from ledger.loadsheet.text import excess_text, length_text, mass_text, phase_title, volume_text
-from ledger.units import to_unit
+from ledger.units import fixed, to_unit
 
 if TYPE_CHECKING:
     from ledger.typedata.model import Envelope, VehicleType
@@ -144,7 +144,7 @@ def _mass_range_violation(vtype: VehicleType, env: Envelope, base: _Subject, whe
                            f"envelope ({mass_text(top, du)} at {what} "
                            f"{length_text(cg_v, du)}) by {excess_text(mass_text, -to_max, du)}"}
     if to_min is not None and to_min < 0:
-        bottom = mass + to_min
+        bottom = mass - to_min  # to_min = mass − the envelope's bottom at this CG
         return {**base, "side": "below", "limit": bottom, "actual": mass, "excess": -to_min,
                 "unit": "kg",
                 "message": f"{title} mass {mass_text(mass, du)} is below the {env.name} "
@@ -246,7 +246,7 @@ def station_checks(vtype: VehicleType, plan: Plan, violations: list[Violation],
 
 
 def _floor_text(kg_m2: float, unit: str) -> str:
-    return f"{to_unit(kg_m2, unit):,.1f} {unit}"
+    return f"{fixed(to_unit(kg_m2, unit), 1)} {unit}"
 
 
 def tank_checks(vtype: VehicleType, plan: Plan, violations: list[Violation]) -> None:

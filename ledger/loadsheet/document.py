@@ -404,6 +404,7 @@ class SheetDocument(TypedDict):
     configuration: ConfigurationDoc
     prepared: PreparedDoc
     plan_source: str | None
+    note: str | None                  # the plan's free-text note
     category: str | None
     standard_masses: StandardMassesDoc
     units: UnitsDoc

@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from ledger.loadsheet.document import PHASE_TITLES, phase_title
-from ledger.units import DisplayUnits, display_decimals, nonzero_excess, to_unit
+from ledger.units import DisplayUnits, display_decimals, fixed, nonzero_excess, to_unit
 
 __all__ = ["mass_text", "length_text", "volume_text", "excess_text", "volume_decimals",
            "phase_title", "PHASE_TITLES", "VOLUME_DECIMALS"]
@@ -25,13 +25,6 @@ def volume_decimals(unit: str) -> int:
     return VOLUME_DECIMALS.get(unit, 1)
 
 
-def _fixed(v: float, d: int) -> str:
-    text = f"{v:,.{d}f}"
-    if float(text.replace(",", "")) == 0.0:
-        text = text.lstrip("-")
-    return text
-
-
 def mass_text(kg: float, du: DisplayUnits) -> str:
     """A mass for a message: whole units from 100 up, else one or two decimals.
 
@@ -39,11 +32,11 @@ def mass_text(kg: float, du: DisplayUnits) -> str:
     --------
     >>> du = DisplayUnits("lb", "in", "USgal", 1000)
     >>> mass_text(1111.3, du), mass_text(29.48350405, du)
-    ('2,450 lb', '65.0 lb')
+    ('2450 lb', '65.0 lb')
     """
     v = to_unit(kg, du.mass)
     d = 0 if abs(v) >= 100 else 1 if abs(v) >= 1 else 2
-    return f"{_fixed(v, d)} {du.mass}"
+    return f"{fixed(v, d)} {du.mass}"
 
 
 def length_text(m: float, du: DisplayUnits) -> str:
@@ -55,7 +48,7 @@ def length_text(m: float, du: DisplayUnits) -> str:
     '80.50 in'
     """
     v = to_unit(m, du.length)
-    return f"{_fixed(v, display_decimals(du.length))} {du.length}"
+    return f"{fixed(v, display_decimals(du.length))} {du.length}"
 
 
 def volume_text(m3: float, du: DisplayUnits) -> str:
@@ -67,7 +60,7 @@ def volume_text(m3: float, du: DisplayUnits) -> str:
     '25.0 USgal'
     """
     v = to_unit(m3, du.volume)
-    return f"{_fixed(v, volume_decimals(du.volume))} {du.volume}"
+    return f"{fixed(v, volume_decimals(du.volume))} {du.volume}"
 
 
 def excess_text(show: Callable[[float, DisplayUnits], str], amount: float,

@@ -108,6 +108,6 @@ def render_type(shown) -> None:
 
 
 def _num(value_si: float, unit: str, digits: int = 2) -> str:
-    from ledger.units import to_unit
+    from ledger.units import fixed, to_unit
 
-    return f"{to_unit(value_si, unit):,.{digits}f}"
+    return fixed(to_unit(value_si, unit), digits)

@@ -13,7 +13,7 @@ import io
 from collections.abc import Mapping
 from typing import TYPE_CHECKING, Any
 
-from ledger.units import to_unit
+from ledger.units import fixed, to_unit
 
 if TYPE_CHECKING:
     from ledger.analysis.ground_types import CgHeightDocument, CornersDocument, RuleSetDocument
@@ -231,7 +231,7 @@ def render_rule_set(doc: RuleSetDocument, console: Any = None, width: int = 80) 
     tab = doc.get("bridge_table")
     if tab:
         headers = ["L ft"] + [f"{n} axles" for n in tab["axles"]]
-        body = [[f"{r['length_ft']:g}"] + ["" if v is None else f"{v:,.0f}" for v in r["max_lb"]]
+        body = [[f"{r['length_ft']:g}"] + ["" if v is None else fixed(v, 0) for v in r["max_lb"]]
                 for r in tab["rows"]]
         console.print(Text("Most a group of N consecutive axles may carry, lb (L between "
                            "the outer axles):", style="bold"), width=w, overflow="fold")

@@ -280,6 +280,11 @@ def draw_chart(ax, c: ChartData) -> None:
         ax.annotate(mark, (x, y), xytext=offsets[near % len(offsets)],
                     textcoords="offset points", fontsize=8, fontweight="bold", color=col,
                     zorder=7)
+    for k, (m, name) in enumerate(c.mass_lines):  # the maximum masses (issue 13 item 1)
+        ax.axhline(m, color="#7a4b00", linewidth=0.9, linestyle=(0, (4, 2)), zorder=2.5,
+                   label="maximum mass" if k == 0 else None)
+        ax.text(0.99, m, name, transform=ax.get_yaxis_transform(), ha="right",
+                va="bottom" if k % 2 == 0 else "top", fontsize=6, color="#7a4b00", zorder=6)
     for x, y in c.exits:
         ax.plot([x], [y], marker="x", markersize=9, markeredgewidth=1.2, color=BAD, zorder=4,
                 linestyle="none", label="leaves envelope")

@@ -4,19 +4,22 @@ each phase's CG by its letter, the fuel-burn path and where it first leaves the 
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import TYPE_CHECKING
 
 from ledger.report.sheet_format import number
-from ledger.units import to_unit
+from ledger.units import fixed, to_unit
 
 if TYPE_CHECKING:
     from ledger.report.sheet_view import SheetView
 
-__all__ = ["ChartData", "PHASE_MARKS", "charts"]
+__all__ = ["ChartData", "LIMIT_LINES", "PHASE_MARKS", "charts", "mass_lines_legend"]
 
 PHASE_MARKS = {"zero_fuel": "Z", "ramp": "R", "takeoff": "T", "landing": "L",
                "departure": "D", "arrival": "A"}
+#: The mass limits a chart draws as horizontal lines (issue 13 item 1), by phase.
+LIMIT_LINES = {"zero_fuel": "max. zero-fuel", "takeoff": "max. take-off",
+               "landing": "max. landing"}
 
 
 @dataclass
@@ -35,7 +38,8 @@ class ChartData:
     axis: str = "longitudinal"
     exit_note: str | None = None
     """Where the burn path first leaves the envelope, if it does."""
-
+    mass_lines: list[tuple[float, str]] = field(default_factory=list)
+    """The phases' mass limits drawn across the chart: (mass in display units, short name)."""
 
 
 def charts(view: SheetView) -> list[ChartData]:
@@ -50,10 +54,32 @@ def charts(view: SheetView) -> list[ChartData]:
         points, legend = _phase_points(ax, poly, d.get("phases") or [])
         ex, exit_note = _path_exit(ax, poly, bp, exits.get((poly.get("name"), ax.axis)))
         name = poly.get("name") or poly.get("category") or "envelope"
+        lines = _mass_lines(ax, d.get("phases") or []) if ax.axis != "lateral" else []
         out.append(ChartData(f"Envelope {name}, {ax.axis}", ax.x_label(),
                              f"mass ({view.mass_unit})", ax.polygon(poly), points,
-                             ax.path(bp.get("points") or []), ex, legend, ax.axis, exit_note))
+                             ax.path(bp.get("points") or []), ex, legend, ax.axis, exit_note,
+                             lines))
     return out
+
+
+def _mass_lines(ax: _Axes, phases: list) -> list[tuple[float, str]]:
+    """The maximum zero-fuel, take-off and landing masses (those the type gives), lowest
+    first; one line, with both names, where two limits are equal."""
+    by_mass: dict[float, list[str]] = {}
+    for p in phases:
+        short = LIMIT_LINES.get(str(p.get("name")))
+        limit = number(p.get("mass_limit_kg"))
+        if short and limit is not None:
+            by_mass.setdefault(round(ax.y(limit), 9), []).append(short)
+    return [(m, " and ".join(names)) for m, names in sorted(by_mass.items())]
+
+
+def mass_lines_legend(chart: ChartData, view: SheetView) -> str | None:
+    """One legend line for the mass-limit lines: "max. zero-fuel 1500.0 lb, …"."""
+    if not chart.mass_lines:
+        return None
+    return ", ".join(f"{name} {fixed(m, view.mass_decimals)} {view.mass_unit}"
+                     for m, name in chart.mass_lines)
 
 
 class _Axes:
@@ -130,6 +156,10 @@ def _phase_points(ax: _Axes, poly: dict, phases: list,
             if e.get("name") == poly.get("name") and \
                     (e.get("axis") or "longitudinal") == axis:
                 state = ", inside" if e.get("inside") else ", OUTSIDE"
+        over = view.over_mass_limit(p)
+        if over:  # the verdict counts it: the legend must not read as "inside" alone
+            state = (", CG inside the envelope" if state == ", inside" else state) + \
+                f", OVER {over}"
         where = (f"index {view.index(mom if mom is not None else cg * mass)}"
                  if ax.coords == "moment" else
                  f"{'lat. ' if axis == 'lateral' else ''}CG "

@@ -12,7 +12,7 @@ import math
 from typing import Any
 
 from ledger.loadsheet.text import volume_decimals
-from ledger.units import DisplayUnits, display_decimals, to_unit
+from ledger.units import DisplayUnits, display_decimals, fixed, to_unit
 
 __all__ = ["DASH", "DisplayFormat", "fixed", "number"]
 
@@ -28,16 +28,6 @@ def number(v: Any) -> float | None:
     except (TypeError, ValueError):
         return None
     return f if math.isfinite(f) else None
-
-
-def fixed(v: float, decimals: int, signed: bool = False) -> str:
-    """``v`` with ``decimals`` decimals; never ``-0.0``, and no sign on a zero."""
-    text = f"{v:+.{decimals}f}" if signed else f"{v:.{decimals}f}"
-    if float(text) == 0.0:  # no "-0.0", and no sign on a zero
-        text = text.lstrip("+-")
-    return text
-
-
 
 
 class DisplayFormat:
@@ -65,6 +55,11 @@ class DisplayFormat:
         biggest = max([abs(number(p.get("moment_index")) or 0.0)
                        for p in doc.get("phases") or []] + [0.0])
         self._id = 2 if biggest < 1000 else 1 if biggest < 100000 else 0
+
+    @property
+    def mass_decimals(self) -> int:
+        """Decimals of a mass in the display unit (as :meth:`mass` shows it)."""
+        return self._md
 
     def mass(self, kg, signed: bool = False) -> str:
         """A mass in the display unit, without the unit (the column header carries it)."""

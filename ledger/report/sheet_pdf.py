@@ -38,7 +38,7 @@ from ledger.report.pdf_layout import (
     draw_page,
     figure_line,
 )
-from ledger.report.sheet_charts import ChartData
+from ledger.report.sheet_charts import ChartData, mass_lines_legend
 from ledger.report.sheet_format import DASH
 from ledger.report.sheet_tables import TableData
 from ledger.report.sheet_view import SheetView
@@ -57,7 +57,7 @@ def _layout(view: SheetView, page_w: float, page_h: float | None) -> Layout:
     for t in (view.items_table(), view.stations_table(), view.fuel_table(),
               view.phases_table(), view.margins_table()):
         _table(lay, t)
-    _charts(lay, view.charts())
+    _charts(lay, view)
     _table(lay, view.axles_table())
     if view.ground_caution:
         lay.paragraph(view.ground_caution, 7.5, style="italic")
@@ -105,8 +105,16 @@ def _table(lay: Layout, t: TableData | None) -> None:
         lay.table(t)
 
 
-def _charts(lay: Layout, charts: list[ChartData]) -> None:
+def _chart_notes(c: ChartData, view: SheetView) -> list[str]:
+    """The legend printed under a chart: its points, the mass limits, where the path leaves."""
+    limits = mass_lines_legend(c, view)
+    return (list(c.legend) + ([f"dashed lines, mass limits: {limits}"] if limits else [])
+            + ([f"\u00d7 {c.exit_note}"] if c.exit_note else []))
+
+
+def _charts(lay: Layout, view: SheetView) -> None:
     """The envelope charts, two a row when there are several, each with its legend."""
+    charts = view.charts()
     if not charts:
         return
     ch_h = 3.3
@@ -116,15 +124,14 @@ def _charts(lay: Layout, charts: list[ChartData]) -> None:
     cw = (lay.cw - gap * (per_row - 1)) / per_row
     for start in range(0, len(charts), per_row):
         row = charts[start:start + per_row]
-        legend_h = max(lay.lh(7.0) * (len(c.legend) + (1 if c.exit_note else 0))
-                       for c in row)
+        legend_h = max(lay.lh(7.0) * len(_chart_notes(c, view)) for c in row)
         lay.need(ch_h + 0.05 + legend_h)  # a chart and its legend on one page
         for k, c in enumerate(row):
             lay.op("chart", x=lay.left + k * (cw + gap), y=lay.y, w=cw, h=ch_h, chart=c)
         lay.y += ch_h + 0.05
         ends = []
         for k, c in enumerate(row):
-            notes = list(c.legend) + ([f"\u00d7 {c.exit_note}"] if c.exit_note else [])
+            notes = _chart_notes(c, view)
             y0 = lay.y
             for line in notes:
                 for part in lay.m.wrap(line, 7.0, cw):

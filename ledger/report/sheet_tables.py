@@ -219,7 +219,7 @@ def margins_table(view: SheetView) -> TableData | None:
     lu, mu = view.length_unit, view.mass_unit
     has_mac = any(number(e.get("forward_margin_percent_mac")) is not None
                   for p in phases for e in p.get("envelopes") or [])
-    headers = ["Phase", "Envelope", "Inside", f"Fwd or\nleft\n{lu}",
+    headers = ["Phase", "Envelope", "In\nlimits", f"Fwd or\nleft\n{lu}",
                f"Aft or\nright\n{lu}"]
     if has_mac:
         headers += ["Fwd\n\n%MAC", "Aft\n\n%MAC"]
@@ -229,17 +229,18 @@ def margins_table(view: SheetView) -> TableData | None:
         for e in p.get("envelopes") or []:
             axis = e.get("axis") or "longitudinal"
             env = f"{e.get('name') or e.get('category') or '?'} {_axis_short(axis)}"
-            row = [view.phase_label(p), env, "yes" if e.get("inside") else "NO",
+            over = view.over_mass_limit(p) is not None
+            row = [view.phase_label(p), env, "yes" if e.get("inside") and not over else "NO",
                    view.length(e.get("forward_margin_m"), signed=True),
                    view.length(e.get("aft_margin_m"), signed=True)]
             if has_mac:
                 row += [view.percent(e.get("forward_margin_percent_mac"), signed=True),
                         view.percent(e.get("aft_margin_percent_mac"), signed=True)]
-            row.append(view.mass(e.get("mass_margin_kg"), signed=True))
+            row.append(view.mass(_room_above(e, p), signed=True))
             rows.append(row)
     notes = ["Distance from the CG to each limit at the phase mass (lateral envelopes: "
-             "left and right limits); room above: mass up to the envelope's top. "
-             "Negative is outside."]
+             "left and right limits); room above: mass up to the envelope's top or the "
+             "phase's mass limit, whichever is lower. Negative is outside or over."]
     return TableData("Envelope margins", headers, rows, set(range(3, len(headers))), notes)
 
 
@@ -273,6 +274,14 @@ def axles_table(view: SheetView) -> TableData | None:
     if rule_set.get("advisory"):
         notes.append(rule_set["advisory"])
     return TableData("Axles", headers, rows, set(range(1 + off, 6 + off)), notes)
+
+
+def _room_above(env: dict, phase: dict) -> float | None:
+    """Mass that may still be added: to the envelope's top or the phase's mass limit, whichever
+    is lower (negative when either is exceeded; issue 13 item 1)."""
+    rooms = [r for r in (number(env.get("mass_margin_kg")), number(phase.get("mass_margin_kg")))
+             if r is not None]
+    return min(rooms) if rooms else None
 
 
 def _axis_short(axis: str) -> str:

@@ -34,11 +34,11 @@ from rich.rule import Rule
 from rich.table import Table
 from rich.text import Text
 
-from ledger.report.sheet_charts import ChartData
+from ledger.report.sheet_charts import ChartData, mass_lines_legend
 from ledger.report.sheet_format import DASH
 from ledger.report.sheet_tables import TableData
 from ledger.report.sheet_view import SheetView
-from ledger.report.textchart import PATH, envelope_chart
+from ledger.report.textchart import LEVEL, PATH, envelope_chart
 
 __all__ = ["DASH", "ChartData", "SheetView", "TableData", "check_lines", "render_sheet",
            "sheet_text"]
@@ -82,8 +82,8 @@ def render_sheet(doc: dict, console: Console | None = None, width: int = 80) -> 
     """
     if console is None:
         console = Console(width=width, highlight=False)
-    page = _Page(console, max(60, min(width, console.width)))
     view = SheetView(doc)
+    page = _Page(console, max(60, min(width, console.width)), view)
     page.out(_heading_panel(view, page.width))
     for table in (view.items_table(), view.stations_table(), view.fuel_table(),
                   view.phases_table(), view.margins_table()):
@@ -100,9 +100,10 @@ def render_sheet(doc: dict, console: Console | None = None, width: int = 80) -> 
 class _Page:
     """The console and the layout width every block of the sheet prints within."""
 
-    def __init__(self, console: Console, width: int):
+    def __init__(self, console: Console, width: int, view: SheetView):
         self.console = console
         self.width = width
+        self.view = view
 
     def out(self, *a, **kw) -> None:
         kw.setdefault("width", self.width)
@@ -139,16 +140,20 @@ def _chart_block(page: _Page, chart: ChartData) -> None:
     page.section(chart.title)
     pts = chart.points + [(x, y, EXIT_MARK) for x, y in chart.exits]
     for line in envelope_chart([chart.polygon], pts, chart.path, width=page.width,
-                               height=16, x_label=chart.x_label, y_label=chart.y_label):
+                               height=16, x_label=chart.x_label, y_label=chart.y_label,
+                               levels=[m for m, _ in chart.mass_lines]):
         page.out(Text(line), no_wrap=True, overflow="crop", soft_wrap=False)
     legend = list(chart.legend)
+    limits = mass_lines_legend(chart, page.view)
+    if limits:
+        legend.append(f"{LEVEL} mass limits: {limits}")
     if chart.path:
         legend.append(f"{PATH} burn path: the CG as fuel burns")
     if chart.exit_note:
         legend.append(f"{EXIT_MARK} {chart.exit_note}")
     legend.append("+-|/\\ envelope outline (limits inclusive: on the line is inside)")
-    for line in legend:
-        page.out(Text("  " + line), overflow="fold")
+    for line in legend:  # a long line goes on under its own text, not at column 0
+        page.out(_hanging(" ", line, page.width))
 
 
 def _limits_and_fixes(page: _Page, view: SheetView) -> None:

@@ -122,6 +122,8 @@ class SheetView(DisplayFormat):
             rows.append(("Category", str(d["category"])))
         if d.get("plan_source"):
             rows.append(("Plan", str(d["plan_source"])))
+        if d.get("note"):
+            rows.append(("Note", str(d["note"])))
         who = prepared.get("by") or DASH
         when = _when(prepared.get("at"))
         rows.append(("Prepared", f"{who}, {when}" if when else who))
@@ -166,6 +168,15 @@ class SheetView(DisplayFormat):
         for p in self.doc.get("phases") or []:
             if p.get("name") == name:
                 return p
+        return None
+
+    def over_mass_limit(self, p: dict) -> str | None:
+        """"maximum zero-fuel mass by 50.0 lb" when the sheet's violations say phase ``p`` is
+        over its mass limit (the verdict's own test), else None (issue 13 item 1)."""
+        for v in self.doc.get("violations") or []:
+            if v.get("phase") == p.get("name") and v.get("code") in ("mass_limit", "gross") \
+                    and number(v.get("limit")) == number(p.get("mass_limit_kg")):
+                return f"{v.get('subject')} by {self.quantity(v.get('excess'), 'kg')}"
         return None
 
     def phase_label(self, p: dict | None) -> str:

@@ -8,6 +8,8 @@ What the characters mean
 ``+``                a polygon vertex
 ``-`` ``|`` ``/`` ``\``   a polygon edge, by its slope on the grid
 ``.``                the path (for example the CG while fuel burns, take-off to landing)
+``=``                a level line across the chart (for example a maximum mass), under the
+                     outline; its value is written in the left margin
 a letter or digit    a labelled point (a phase CG); it is drawn last, so it shows even where
                      it falls on an edge or a vertex of the outline
 
@@ -23,10 +25,11 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
-__all__ = ["Grid", "envelope_chart", "nice_ticks", "plot_grid"]
+__all__ = ["LEVEL", "PATH", "VERTEX", "Grid", "envelope_chart", "nice_ticks", "plot_grid"]
 
 VERTEX = "+"
 PATH = "."
+LEVEL = "="
 _EDGE_CHARS = set("+-|/\\")
 
 
@@ -120,7 +123,7 @@ def plot_grid(polygons: Sequence[Sequence[Sequence[float]]],
               points: Sequence[tuple[float, float, str]] = (),
               path: Sequence[Sequence[float]] = (),
               width: int = 60, height: int = 16, *,
-              pad: float = 0.06) -> Grid:
+              pad: float = 0.06, levels: Sequence[float] = ()) -> Grid:
     r"""Rasterise envelope outlines, a path and labelled points onto a character grid.
 
     Parameters
@@ -135,6 +138,9 @@ def plot_grid(polygons: Sequence[Sequence[Sequence[float]]],
         Grid size in characters (at least 8 × 4).
     pad : float
         Margin around the data, as a fraction of the data span on each side.
+    levels : sequence of float
+        y values drawn as horizontal lines of ``=`` across the grid, under everything else
+        (the plotted range covers them).
 
     Returns
     -------
@@ -163,12 +169,16 @@ def plot_grid(polygons: Sequence[Sequence[Sequence[float]]],
         if not (math.isfinite(x) and math.isfinite(y)):
             raise ValueError(f"point {label!r}: ({x}, {y}) is not finite")
     line = _finite_pairs(path, "path")
+    flat = [float(v) for v in levels if math.isfinite(float(v))]
     xs = [p[0] for poly in polys for p in poly] + [p[0] for p in pts] + [p[0] for p in line]
     ys = [p[1] for poly in polys for p in poly] + [p[1] for p in pts] + [p[1] for p in line]
     if not xs:
         xs, ys = [0.0, 1.0], [0.0, 1.0]
+    ys += flat
     grid = Grid(width, height, _padded(min(xs), max(xs), pad), _padded(min(ys), max(ys), pad))
     cells = grid.cells
+    for v in flat:
+        cells[grid.row(v)] = [LEVEL] * width
 
     for poly in polys:
         if len(poly) > 1 and poly[0] == poly[-1]:
@@ -244,11 +254,17 @@ def _tick_text(v: float, step: float) -> str:
     return text.lstrip("-") if float(text) == 0 else text
 
 
+def _level_text(v: float) -> str:
+    # A maximum mass in the margin: whole where it is whole, else one decimal.
+    return f"{v:.0f}" if abs(v - round(v)) < 0.05 else f"{v:.1f}"
+
+
 def envelope_chart(polygons: Sequence[Sequence[Sequence[float]]],
                    points: Sequence[tuple[float, float, str]] = (),
                    path: Sequence[Sequence[float]] = (),
                    width: int = 78, height: int = 16,
-                   x_label: str = "", y_label: str = "") -> list[str]:
+                   x_label: str = "", y_label: str = "",
+                   levels: Sequence[float] = ()) -> list[str]:
     """An envelope chart as lines of text: outline, path, labelled points and both axes.
 
     Parameters
@@ -265,6 +281,9 @@ def envelope_chart(polygons: Sequence[Sequence[Sequence[float]]],
         Rows of the plotting area (the axis and its labels add three more lines).
     x_label, y_label : str
         Axis titles; ``y_label`` heads the chart, ``x_label`` is centred under it.
+    levels : sequence of float
+        y values drawn as lines of ``=`` (maximum masses), each with its value in the left
+        margin in place of a tick.
 
     Returns
     -------
@@ -281,22 +300,33 @@ def envelope_chart(polygons: Sequence[Sequence[Sequence[float]]],
     if width < 30:
         raise ValueError(f"chart width {width} is too small; at least 30")
     # The y tick labels take the left margin; size the grid after measuring them.
-    probe = plot_grid(polygons, points, path, 10, max(height, 4))
+    probe = plot_grid(polygons, points, path, 10, max(height, 4), levels=levels)
     y0, y1 = probe.y_range
     yt = nice_ticks(y0, y1, max(2, min(6, height // 3)))
     ystep = yt[1] - yt[0] if len(yt) > 1 else 1.0
     ytexts = [_tick_text(v, ystep) for v in yt]
-    margin = max(len(t) for t in ytexts) + 1
+    # Levels on one row (2,400 and 2,450 lb at 100 lb a row) share it: "2400/2450".
+    by_row: dict[int, list[str]] = {}
+    for v in sorted(levels):
+        by_row.setdefault(probe.row(v), []).append(_level_text(v))
+    ltexts = ["/".join(dict.fromkeys(t)) for t in by_row.values()]
+    margin = max(len(t) for t in ytexts + ltexts) + 1
     grid_w = width - margin - 1
-    grid = plot_grid(polygons, points, path, grid_w, max(height, 4))
+    grid = plot_grid(polygons, points, path, grid_w, max(height, 4), levels=levels)
     row_text = {grid.row(v): t for v, t in zip(yt, ytexts)}
+    level_rows = {grid.row(v) for v in levels}
+    # A level's own value replaces a tick on its row, and a tick next to it (one row away)
+    # is dropped, so that the margin never shows two numbers for neighbouring lines.
+    row_text = {r: t for r, t in row_text.items()
+                if not any(abs(r - lr) <= 1 for lr in level_rows)}
+    row_text.update(dict(zip(by_row, ltexts)))
 
     lines: list[str] = []
     if y_label:
         lines.append(y_label[:width])
     for r, cells in enumerate(grid.lines()):
         left = row_text.get(r, "")
-        axis = "+" if left else "|"
+        axis = LEVEL if r in level_rows else "+" if left else "|"
         lines.append((f"{left:>{margin - 1}} {axis}{cells}").rstrip())
 
     x0, x1 = grid.x_range

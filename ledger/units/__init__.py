@@ -65,7 +65,13 @@ from ledger.units.conversion import (
     to_unit,
     units_of,
 )
-from ledger.units.display import DisplayUnits, display_decimals, format_quantity, nonzero_excess
+from ledger.units.display import (
+    DisplayUnits,
+    display_decimals,
+    fixed,
+    format_quantity,
+    nonzero_excess,
+)
 from ledger.units.parsing import (
     is_bare_number,
     parse_angle,
@@ -98,6 +104,7 @@ __all__ = [
     "describe_units",
     "dimension_of",
     "display_decimals",
+    "fixed",
     "nonzero_excess",
     "format_quantity",
     "from_unit",

@@ -8,7 +8,25 @@ from dataclasses import dataclass
 from ledger.errors import UnitError
 from ledger.units.conversion import canonical_unit, from_unit, to_unit
 
-__all__ = ["DisplayUnits", "display_decimals", "format_quantity", "nonzero_excess"]
+__all__ = ["DisplayUnits", "display_decimals", "fixed", "format_quantity", "nonzero_excess"]
+
+
+def fixed(value: float, decimals: int, signed: bool = False) -> str:
+    """``value`` with ``decimals`` decimals, as every report prints a figure.
+
+    No thousands separator, so any printed figure can be typed back as input (the parser
+    refuses "2,398 lb"); never ``-0.0``, and no sign on a zero. The one home of number
+    formatting for reports: messages, tables, loading sheets.
+
+    Examples
+    --------
+    >>> fixed(2398.04, 0), fixed(-0.04, 1), fixed(12.5, 1, signed=True), fixed(0.0, 2, True)
+    ('2398', '0.0', '+12.5', '0.00')
+    """
+    text = f"{value:+.{decimals}f}" if signed else f"{value:.{decimals}f}"
+    if float(text) == 0.0:
+        text = text.lstrip("+-")
+    return text
 
 
 def format_quantity(value_si: float, unit: str, digits: int = 1) -> str:
@@ -26,11 +44,7 @@ def format_quantity(value_si: float, unit: str, digits: int = 1) -> str:
     '1000 lb*in'
     """
     u = canonical_unit(unit)
-    v = to_unit(value_si, u)
-    text = f"{v:.{digits}f}"
-    if float(text) == 0.0:
-        text = text.lstrip("-")
-    return f"{text} {u}"
+    return f"{fixed(to_unit(value_si, u), digits)} {u}"
 
 
 # Decimals a display unit shows. Masses: the unit's usual decimals, more for a small vehicle
