@@ -89,3 +89,15 @@ def test_commands_refuse_an_uninitialised_database(cli):
     res = cli("type", "list")
     assert res.exit_code == 2
     assert "has no wbledger schema; run `wbledger init` first" in res.stderr
+
+
+def test_type_show_lists_the_axle_groups(cli, tmp_path):
+    """issue 13 item 2: `type show` omitted `axle_group`."""
+    from tests.loadsheet.test_axle_group_fixes import TANDEM
+
+    _init(cli)
+    path = tmp_path / "tandem.toml"
+    path.write_text(TANDEM, encoding="utf-8")
+    assert cli("type", "import", str(path)).exit_code == 0
+    text = cli("type", "show", "TEST-TANDEM").stdout
+    assert "axle_group tandem: axles rear 1, rear 2, load share 0.5/0.5, rating 11500 kg" in text
