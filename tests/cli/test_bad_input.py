@@ -435,6 +435,11 @@ CASES = [
      "Error: --db = '': not a database URL; use sqlite:///PATH or "
      "postgresql+psycopg://USER@HOST/DBNAME", 2),
     (["--bogus"], "Error: No such option: --bogus (see `wbledger --help`)", 2),
+    # issue 13 item 9: a bare --remove of an item the ledger never installed
+    (["config", "define", "x", "--vehicle", "KVA-101", "--remove", "ghost"],
+     "Error: --remove = 'ghost': an item installed on KVA-101 by its ledger (installed: 'ELT'); "
+     "record it with `wbledger install` first, or give NAME=MASS@ARM for an item the ledger "
+     "does not hold", 2),
 ]
 
 
