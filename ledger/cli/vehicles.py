@@ -22,11 +22,14 @@ def add(ctx: typer.Context,
         note: str = typer.Option(None, "--note", help="Free text."),
         ) -> None:
     """Add a vehicle of an imported type."""
+    import shlex
+
     from ledger.services.fleet import add_vehicle
 
-    add_vehicle(common.state(ctx).engine(), registration, type_name, serial=serial, note=note)
-    typer.echo(f"Added {registration} ({type_name}). Record its first weighing with "
-               f"`wbledger weigh {registration}`.")
+    reg = add_vehicle(common.state(ctx).engine(), registration, type_name, serial=serial,
+                      note=note)
+    typer.echo(f"Added {reg} ({type_name}). Record its first weighing with "
+               f"`wbledger weigh {shlex.quote(reg)}`.")
 
 
 @vehicle_app.command("list")

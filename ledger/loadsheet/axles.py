@@ -28,6 +28,7 @@ from ledger.core.ground import (
 from ledger.errors import InputError, LedgerError, PlanError, TypeDataError
 from ledger.loadsheet.document import (
     AxleFinding,
+    AxleGroupRow,
     AxleRow,
     AxleRuleSetDoc,
     PhaseDoc,
@@ -127,7 +128,7 @@ def _phase_loads(sup: _Supports, phase: PhaseDoc, mass: float) -> AxleLoads:
 
 def _axle_rows(vtype: VehicleType, sup: _Supports, name: str, loads: AxleLoads,
                violations: list[Violation]) -> list[AxleRow]:
-    """One phase's load on each axle against its rating, and on each rated axle group."""
+    """One phase's load on each axle against its rating."""
     du = vtype.units
     check = check_axle_ratings(loads.axle, sup.ratings)
     rows: list[AxleRow] = []
@@ -150,12 +151,25 @@ def _axle_rows(vtype: VehicleType, sup: _Supports, name: str, loads: AxleLoads,
                            f"{mass_text(loads.axle[i], du)} is over its rating "
                            f"{mass_text(a.rating_kg, du)} by "
                            f"{excess_text(mass_text, -margin, du)}"})
+    return rows
+
+
+def _group_rows(vtype: VehicleType, sup: _Supports, name: str, loads: AxleLoads,
+                violations: list[Violation]) -> list[AxleGroupRow]:
+    """One phase's load on each axle group (the sum over its axles) against its rating."""
+    du = vtype.units
+    rows: list[AxleGroupRow] = []
     for g in vtype.axle_groups:
-        if g.rating_kg is None:
-            continue
         idx = [i for i, a in enumerate(sup.axles) if a.name in g.axles]
         load = float(loads.axle[idx].sum())
-        if load > g.rating_kg * (1 + 1e-9):
+        over = g.rating_kg is not None and load > g.rating_kg * (1 + 1e-9)
+        rows.append({"phase": name, "name": g.name,
+                     "axles": [sup.axles[i].name for i in idx], "load_kg": load,
+                     "rating_kg": g.rating_kg,
+                     "margin_kg": None if g.rating_kg is None else g.rating_kg - load,
+                     "in_limits": not over})
+        if over:
+            assert g.rating_kg is not None  # only a rated group can be over
             violations.append({
                 "code": "axle", "phase": name, "axle": g.name,
                 "subject": f"axle group '{g.name}'", "limit": g.rating_kg, "actual": load,
@@ -192,6 +206,8 @@ def axle_checks(vtype: VehicleType, phases: list[PhaseDoc], states: Mapping[str,
         loads = _phase_loads(sup, phase, states[name].mass)
         rows = _axle_rows(vtype, sup, name, loads, violations)
         phase["axles"] = rows
+        if vtype.axle_groups:
+            phase["axle_groups"] = _group_rows(vtype, sup, name, loads, violations)
         phase["in_limits"] = phase["in_limits"] and all(r["in_limits"] for r in rows) and \
             not any(v.get("phase") == name for v in violations)
         if top_rows is None:

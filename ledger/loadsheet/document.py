@@ -244,6 +244,18 @@ class AxleRow(TypedDict):
     in_limits: bool
 
 
+class AxleGroupRow(TypedDict):
+    """The load on an axle group (the sum over its axles) against the group's rating."""
+
+    phase: str
+    name: str
+    axles: list[str]
+    load_kg: float
+    rating_kg: float | None
+    margin_kg: float | None
+    in_limits: bool
+
+
 class PhaseDoc(TypedDict):
     name: str
     label: str
@@ -257,6 +269,7 @@ class PhaseDoc(TypedDict):
     envelopes: list[EnvelopeResult]
     in_limits: bool
     axles: NotRequired[list[AxleRow]]   # ground vehicles
+    axle_groups: NotRequired[list[AxleGroupRow]]   # ground vehicles with axle groups
 
 
 class PathPoint(TypedDict):

@@ -33,7 +33,7 @@ from ledger.loadsheet.text import length_text, mass_text
 from ledger.units import from_unit
 
 if TYPE_CHECKING:
-    from ledger.typedata.model import Station, VehicleType
+    from ledger.typedata.model import Axle, Station, VehicleType
     from ledger.typedata.plan import Plan
 
 __all__ = ["FixOption", "FixFinder", "Rebuild"]
@@ -246,33 +246,76 @@ class FixFinder:
             return None
         return _mass_excess(doc, ("ramp", "takeoff", "landing", "departure", "arrival"))
 
-    def axle_offload_need(self, doc: SheetDocument, station: str) -> float | None:
+    def axle_limits(self) -> tuple[list[Axle], list[list[int]] | None,
+                                   list[list[float]] | None, list[float]]:
+        """The supports as :func:`supports` gives them, and each axle's effective rating.
+
+        An axle group's rating limits the group's load; inside the group axle ``i`` carries
+        ``share_i`` of it (lever rule: the group acts as one support), so the group rating is
+        the axle rating ``share_i × rating_group``. The effective rating is the smaller of that
+        and the axle's own (``nan`` where neither is given), so every axle and group limit the
+        checks report is one the sizing clears.
+        """
         axles, groups, shares = supports(self.t)
+        ratings = [a.rating_kg if a.rating_kg is not None else math.nan for a in axles]
+        index = {a.name: i for i, a in enumerate(axles)}
+        for g in self.t.axle_groups:
+            if g.rating_kg is None:
+                continue
+            total = math.fsum(g.load_share)
+            for name, share in zip(g.axles, g.load_share):
+                i = index[name]
+                cap = g.rating_kg * share / total
+                ratings[i] = cap if math.isnan(ratings[i]) else min(ratings[i], cap)
+        return axles, groups, shares, ratings
+
+    def axle_members(self, name: str | None) -> list[int]:
+        """Indices (front to rear) of the axle, or of the axle group's axles, named ``name``."""
+        axles = sorted(self.t.axles, key=lambda a: a.x_m)
+        group = next((g for g in self.t.axle_groups if g.name == name), None)
+        names = set(group.axles) if group is not None else {name}
+        return [i for i, a in enumerate(axles) if a.name in names]
+
+    def axle_fractions(self, x: float) -> np.ndarray | None:
+        """The load each axle takes from 1 kg at arm ``x`` (lever rule between the two supports;
+        behind the rear support the front share is negative), or None if the axles do not
+        stand as two supports."""
+        axles, groups, shares, _ = self.axle_limits()
         ax = np.array([a.x_m for a in axles])
-        x = self.arm(station, "x")
+        units = groups or [[0], [1]]
+        weights = shares or [[1.0], [1.0]]
+        gx = [math.fsum(s * ax[i] for i, s in zip(u, w)) / math.fsum(w)
+              for u, w in zip(units, weights)]
         try:
-            frac = axle_loads(1.0, x, ax, groups=groups, shares=shares).axle
+            front, rear = (axle_loads(1.0, float(g), ax, groups=groups, shares=shares).axle
+                           for g in gx)
         except InputError:
+            return None
+        return cast(np.ndarray, front + (x - gx[0]) / (gx[1] - gx[0]) * (rear - front))
+
+    def axle_offload_need(self, doc: SheetDocument, station: str) -> float | None:
+        frac = self.axle_fractions(self.arm(station, "x"))
+        if frac is None:
             return None
         need = 0.0
         for v in doc["violations"]:
             if v["code"] != "axle":
                 continue
-            idx = [i for i, a in enumerate(axles) if a.name == v.get("axle")]
-            if not idx or frac[idx[0]] <= 0:
+            idx = self.axle_members(v.get("axle"))
+            share = float(frac[idx].sum()) if idx else 0.0
+            if share <= 0:
                 return None
-            need = max(need, _known(v["excess"]) / float(frac[idx[0]]))
+            need = max(need, _known(v["excess"]) / share)
         return need
 
     def move_need(self, doc: SheetDocument, station: str) -> float | None:
         """Signed distance (m, + aft) to move the load in a load area to clear the axles."""
         if _needs_other(doc, {"axle"}):
             return None
-        axles, groups, shares = supports(self.t)
+        axles, groups, shares, ratings = self.axle_limits()
         cargo = self.cargo_at(station)
         if cargo <= 0:
             return None
-        ratings = [a.rating_kg if a.rating_kg is not None else math.nan for a in axles]
         worst = 0.0
         for p in doc["phases"]:
             fix = axle_overload_fix(p["mass_kg"], _known(p["cg_m"]["x"]), [a.x_m for a in axles],

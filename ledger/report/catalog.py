@@ -101,6 +101,10 @@ def render_type(shown) -> None:
     for ax in vt.axles:
         say(f"axle {ax.name}: x {_fmt(ax.x_m, ln, 3)}, rating {_fmt(ax.rating_kg, m, 0)}"
                   + (f", track {_fmt(ax.track_m, ln, 3)}" if ax.track_m else ""))
+    for g in vt.axle_groups:
+        shares = "/".join(f"{s:g}" for s in g.load_share)
+        say(f"axle_group {g.name}: axles {', '.join(g.axles)}, load share {shares}"
+            + (f", rating {_fmt(g.rating_kg, m, 0)}" if g.rating_kg is not None else ""))
     if vt.inertia is not None:
         say(f"inertia data: {vt.inertia.basis}")
     if vt.configurations:

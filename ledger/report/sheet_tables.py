@@ -246,7 +246,8 @@ def margins_table(view: SheetView) -> TableData | None:
 
 def axles_table(view: SheetView) -> TableData | None:
     """Axle loads: per phase when the phases carry them, else the document's ``axles``."""
-    per_phase = [(p, a) for p in view.doc.get("phases") or [] for a in p.get("axles") or []]
+    per_phase = [(p, a) for p in view.doc.get("phases") or []
+                 for a in (p.get("axles") or []) + (p.get("axle_groups") or [])]
     if not per_phase:
         per_phase = [(None, a) for a in view.doc.get("axles") or []]
     if not per_phase:
@@ -259,13 +260,17 @@ def axles_table(view: SheetView) -> TableData | None:
     rows = []
     for p, a in per_phase:
         row = [view.phase_label(p)] if with_phase else []
-        row += [str(a.get("name") or "?"), view.mass(a.get("load_kg")),
+        name = str(a.get("name") or "?")
+        if "axles" in a:  # an axle group's row (issue 13 item 2): the sum over its axles
+            name = f"{name} (group)"
+        row += [name, view.mass(a.get("load_kg")),
                 view.mass(a.get("rating_kg")), view.mass(a.get("margin_kg"), signed=True),
                 view.mass(a.get("left_kg")), view.mass(a.get("right_kg")),
                 "ok" if a.get("in_limits") else "OUT"]
         rows.append(row)
     off = 1 if with_phase else 0
-    notes = ["Margin: rating minus load; negative is over the rating"]
+    notes = ["Margin: rating minus load; negative is over the rating. A group's load is the "
+             "sum over its axles"]
     rule_set = view.doc.get("axle_rule_set") or {}
     if rule_set.get("name"):
         src = f" ({rule_set['source']})" if rule_set.get("source") else ""

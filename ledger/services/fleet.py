@@ -19,10 +19,12 @@ __all__ = ["add_vehicle", "fleet", "vehicle"]
 
 
 def add_vehicle(engine: Engine, registration: str, type_name: str, *,
-                serial: str | None = None, note: str | None = None) -> None:
-    """Add a vehicle of an imported type."""
+                serial: str | None = None, note: str | None = None) -> str:
+    """Add a vehicle of an imported type; returns its registration as stored (normalised by
+    :func:`ledger.store.catalog.registration_key`)."""
     with unit_of_work(engine) as session:
-        _add_vehicle(session, registration, type_name, serial=serial, note=note)
+        return _add_vehicle(session, registration, type_name, serial=serial, note=note
+                            ).registration
 
 
 def fleet(engine: Engine) -> list[dict[str, Any]]:

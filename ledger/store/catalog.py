@@ -31,9 +31,28 @@ __all__ = [
     "get_vehicle",
     "vehicle_type",
     "REGISTRATION_PATTERN",
+    "registration_key",
 ]
 
-REGISTRATION_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9-]{0,39}\Z")
+#: A registration once :func:`registration_key` has normalised it: letters, digits, '-' and
+#: single inner spaces (road plates such as ``NC 33-TR``), starting with a letter or digit.
+REGISTRATION_PATTERN = re.compile(r"^[A-Za-z0-9][A-Za-z0-9 -]{0,39}\Z")
+
+
+def registration_key(text: str) -> str:
+    """A registration as it is stored and looked up: spaces at the ends trimmed and each inner
+    run of spaces one space; letters keep their case (issue 13 item 9). Other white space (a
+    tab, a line break) is left for :data:`REGISTRATION_PATTERN` to refuse.
+
+    Registrations stored before spaces were accepted have none, so this never changes what a
+    stored one means.
+
+    Examples
+    --------
+    >>> registration_key("  NC   33-TR ")
+    'NC 33-TR'
+    """
+    return re.sub(" {2,}", " ", str(text).strip(" "))
 
 
 def _now() -> dt.datetime:
@@ -168,10 +187,17 @@ def load_type(session: Session, row: TypeRevisionRow):
 
 def add_vehicle(session: Session, registration: str, type_name: str, *,
                 serial: str | None = None, note: str | None = None) -> VehicleRow:
-    """Add a vehicle of an imported type."""
-    if not REGISTRATION_PATTERN.match(registration or ""):
-        raise InputError("registration", registration,
-                         "1 to 40 letters, digits or '-', starting with a letter or digit")
+    """Add a vehicle of an imported type; ``registration`` is normalised by
+    :func:`registration_key` and must not differ from another vehicle's by case only."""
+    given, registration = registration, registration_key(registration or "")
+    if not REGISTRATION_PATTERN.match(registration):
+        raise InputError("registration", given,
+                         "1 to 40 letters, digits or '-' (single spaces between them allowed), "
+                         "starting with a letter or digit")
+    twin = _same_but_case(session, registration)
+    if twin is not None and twin != registration:
+        raise ConflictError(f"vehicle {twin!r} exists already and differs from "
+                            f"{registration!r} only in case; use {twin!r}")
     for option, text, most in (("--serial", serial, NAME_MAX), ("--note", note, None)):
         if text is not None:
             check_text(option, text, most)  # no NUL; within the column (ledger.bounds)
@@ -190,18 +216,29 @@ def add_vehicle(session: Session, registration: str, type_name: str, *,
 
 
 def get_vehicle(session: Session, registration: str, *, lock: bool = False) -> VehicleRow:
-    """The vehicle ``registration``; with ``lock`` its row is locked (PostgreSQL FOR UPDATE)."""
+    """The vehicle ``registration`` (normalised by :func:`registration_key`); with ``lock``
+    its row is locked (PostgreSQL FOR UPDATE)."""
+    registration = registration_key(registration)
     query = select(VehicleRow).where(VehicleRow.registration == registration)
     if lock:
         query = query.with_for_update()
     row = session.scalar(query)
     if row is None:
+        twin = _same_but_case(session, registration)
         known = session.scalars(select(VehicleRow.registration).order_by(VehicleRow.registration)
                                 .limit(12)).all()
-        hint = (f"Known vehicles: {', '.join(known)}" if known
+        hint = (f"Did you mean {twin!r}? (registrations keep their case)" if twin
+                else f"Known vehicles: {', '.join(known)}" if known
                 else "Add one with `wbledger vehicle add REG --type NAME`")
         raise NotFoundError("vehicle", registration, hint)
     return row
+
+
+def _same_but_case(session: Session, registration: str) -> str | None:
+    """A stored registration equal to ``registration`` ignoring case, if there is one."""
+    return session.scalar(select(VehicleRow.registration)
+                          .where(func.upper(VehicleRow.registration) == registration.upper())
+                          .order_by(VehicleRow.registration).limit(1))
 
 
 def vehicle_type(session: Session, vehicle: VehicleRow) -> tuple[TypeRevisionRow, object]:

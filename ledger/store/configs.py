@@ -261,6 +261,33 @@ def _items_in_si(items: Sequence[Mapping[str, Any]], units) -> list[dict]:
     return out_items
 
 
+def _check_removals(session: Session, items: Sequence[Mapping[str, Any]],
+                    registration: str | None, type_id: int, owner: str) -> None:
+    """Refuse a bare ``--remove NAME`` (mass and arms from the ledger) of an item the ledger
+    does not show installed: on the vehicle, or (a type's configuration) on any vehicle of the
+    type. Found here, not when the configuration is first applied (issue 13 item 9)."""
+    from ledger.store.entries import installed_items
+
+    bare = [it["name"] for it in items if it.get("from_ledger")]
+    if not bare:
+        return
+    if registration is not None:
+        regs, where = [owner], f"on {owner}"
+    else:
+        regs = list(session.scalars(select(VehicleRow.registration)
+                                    .where(VehicleRow.type_id == type_id)
+                                    .order_by(VehicleRow.registration)))
+        where = f"on a vehicle of type {owner}"
+    on = sorted({i.name for reg in regs for i in installed_items(session, reg)})
+    for name in bare:
+        if name not in on:
+            known = ", ".join(repr(n) for n in on) or "none"
+            raise InputError("--remove", name,
+                             f"an item installed {where} by its ledger (installed: {known}); "
+                             "record it with `wbledger install` first, or give "
+                             "NAME=MASS@ARM for an item the ledger does not hold")
+
+
 def define_configuration(session: Session, name: str, *, actor: str,
                          type_name: str | None = None, registration: str | None = None,
                          items: Sequence[Mapping[str, Any]] = (),
@@ -312,6 +339,7 @@ def define_configuration(session: Session, name: str, *, actor: str,
     if not items and not disables_stations:
         raise InputError("--install/--remove", "", "at least one item or --disable-station")
     out_items = _items_in_si(items, vtype.units)
+    _check_removals(session, out_items, registration, owner_type_id, owner)
     stations = [s.name for s in vtype.stations]
     for s in disables_stations:
         if s not in stations:

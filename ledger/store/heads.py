@@ -17,7 +17,7 @@ from sqlalchemy import bindparam, insert, select, true
 from sqlalchemy.orm import Session
 
 from ledger.core.ledger_rule import RunningState, leaves_installed
-from ledger.store.catalog import get_vehicle
+from ledger.store.catalog import get_vehicle, registration_key
 from ledger.store.models import LedgerEntryRow, VehicleRow
 from ledger.store.sqlite_path import driver
 
@@ -64,7 +64,7 @@ def vehicle_key(session: Session, registration: str, *, lock: bool = False) -> V
     ``FOR UPDATE``; on SQLite the transaction's ``BEGIN IMMEDIATE`` already serialises
     writers). A plain Core query on the session's connection: appends are the hot path."""
     row = session.connection().execute(_VEHICLE_LOCKED if lock else _VEHICLE,
-                                       {"reg": registration}).first()
+                                       {"reg": registration_key(registration)}).first()
     if row is None:
         get_vehicle(session, registration)  # raises NotFoundError with the known vehicles
     return VehicleKey(*row)
@@ -186,7 +186,7 @@ def locked_item_state(session: Session, registration: str, name: str):
         vehicle = vehicle_key(session, registration, lock=True)
         return (vehicle, *head_and_item(session, vehicle.id, name))
     sql, names, fixed, procs = _sqlite_vehicle_head_item(conn.dialect)
-    params = {**fixed, "reg": registration, "item": name}
+    params = {**fixed, "reg": registration_key(registration), "item": name}
     row = driver(conn).execute(sql, tuple(params[n] for n in names)).fetchone()
     if row is not None:
         row = list(row)

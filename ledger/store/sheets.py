@@ -28,7 +28,7 @@ from sqlalchemy.orm import Session
 
 from ledger.bounds import TEXT_MAX, check_text
 from ledger.errors import ConflictError, NotFoundError
-from ledger.store.catalog import load_type
+from ledger.store.catalog import load_type, registration_key
 from ledger.store.chain import canonical_json
 from ledger.store.models import (
     LedgerEntryRow,
@@ -242,7 +242,7 @@ def list_sheets(session: Session, registration: str | None = None, *,
     """Saved sheets, newest first; of one vehicle if ``registration`` is given."""
     query = _query()
     if registration is not None:
-        query = query.where(VehicleRow.registration == registration)
+        query = query.where(VehicleRow.registration == registration_key(registration))
     query = query.order_by(LoadingSheetRow.id.desc()).limit(int(limit))
     return [_saved(*r) for r in session.execute(query).all()]
 

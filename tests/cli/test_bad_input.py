@@ -213,8 +213,8 @@ CASES = [
      "Error: no vehicle type 'NOPE'. Known types: KV-P4, KV-TR75", 2),
     (["vehicle", "show", "NOPE"], f"Error: no vehicle 'NOPE'. {VEHICLES}", 2),
     (["vehicle", "add", "bad reg!", "--type", "KV-P4"],
-     "Error: registration = 'bad reg!': 1 to 40 letters, digits or '-', starting with a letter "
-     "or digit", 2),
+     "Error: registration = 'bad reg!': 1 to 40 letters, digits or '-' (single "
+     "spaces between them allowed), starting with a letter or digit", 2),
     (["vehicle", "add", "KVA-102"],
      "Error: Missing option '--type' (see `wbledger vehicle add --help`)", 2),
     # --- maintenance: malformed quantities and dates -----------------------------------------
@@ -436,6 +436,20 @@ CASES = [
      "Error: --db = '': not a database URL; use sqlite:///PATH or "
      "postgresql+psycopg://USER@HOST/DBNAME", 2),
     (["--bogus"], "Error: No such option: --bogus (see `wbledger --help`)", 2),
+    # issue 13 item 9: a bare --remove of an item the ledger never installed
+    (["config", "define", "x", "--vehicle", "KVA-101", "--remove", "ghost"],
+     "Error: --remove = 'ghost': an item installed on KVA-101 by its ledger (installed: 'ELT'); "
+     "record it with `wbledger install` first, or give NAME=MASS@ARM for an item the ledger "
+     "does not hold", 2),
+    # issue 13 item 9: registrations keep their case; one that differs only in case is refused
+    (["vehicle", "add", "kva-101", "--type", "KV-P4"],
+     "Error: vehicle 'KVA-101' exists already and differs from 'kva-101' only in case; use "
+     "'KVA-101'", 2),
+    (["vehicle", "show", "kva-101"],
+     "Error: no vehicle 'kva-101'. Did you mean 'KVA-101'? (registrations keep their case)", 2),
+    (["vehicle", "add", "KVA 102\t", "--type", "KV-P4"],
+     "Error: registration = 'KVA 102\\t': 1 to 40 letters, digits or '-' (single spaces "
+     "between them allowed), starting with a letter or digit", 2),
 ]
 
 

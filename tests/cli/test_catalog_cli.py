@@ -82,10 +82,43 @@ def test_vehicle_add_errors(cli):
     res = cli("vehicle", "add", "bad reg!", "--type", "KV-P4")
     assert res.exit_code == 2
     assert res.stderr.strip() == ("Error: registration = 'bad reg!': 1 to 40 letters, digits or "
-                                  "'-', starting with a letter or digit")
+                                  "'-' (single spaces between them allowed), starting with a "
+                                  "letter or digit")
 
 
 def test_commands_refuse_an_uninitialised_database(cli):
     res = cli("type", "list")
     assert res.exit_code == 2
     assert "has no wbledger schema; run `wbledger init` first" in res.stderr
+
+
+def test_type_show_lists_the_axle_groups(cli, tmp_path):
+    """issue 13 item 2: `type show` omitted `axle_group`."""
+    from tests.loadsheet.test_axle_group_fixes import TANDEM
+
+    _init(cli)
+    path = tmp_path / "tandem.toml"
+    path.write_text(TANDEM, encoding="utf-8")
+    assert cli("type", "import", str(path)).exit_code == 0
+    text = cli("type", "show", "TEST-TANDEM").stdout
+    assert "axle_group tandem: axles rear 1, rear 2, load share 0.5/0.5, rating 11500 kg" in text
+
+
+def test_a_registration_with_spaces_is_normalised_and_found_again(cli):
+    """issue 13 item 9: road plates such as `NC 33-TR` were refused. Spaces at the ends are
+    trimmed and inner runs become one space, when stored and when looked up; case is kept."""
+    _init(cli)
+    cli("type", "import", str(P4))
+    res = cli("vehicle", "add", "  NC   33-TR ", "--type", "KV-P4")
+    assert (res.exit_code, res.stdout.strip()) == (0, (
+        "Added NC 33-TR (KV-P4). Record its first weighing with `wbledger weigh 'NC 33-TR'`."))
+    for given in ("NC 33-TR", "NC  33-TR", " NC 33-TR"):
+        shown = cli("vehicle", "show", given, "--json")
+        assert shown.exit_code == 0, shown.stderr
+        assert json.loads(shown.stdout)["registration"] == "NC 33-TR"
+    again = cli("vehicle", "add", "nc 33-tr", "--type", "KV-P4")
+    assert (again.exit_code, again.stderr) == (2, (
+        "Error: vehicle 'NC 33-TR' exists already and differs from 'nc 33-tr' only in case; "
+        "use 'NC 33-TR'\n"))
+    listed = json.loads(cli("vehicle", "list", "--json").stdout)
+    assert [v["registration"] for v in listed] == ["NC 33-TR"]

@@ -96,7 +96,7 @@ def test_the_optional_keys_are_the_ones_the_notes_name():
     assert SheetDocument.__optional_keys__ == {"amendment"}
     hints = typing.get_type_hints(SheetDocument)
     phase = _typed_dicts(hints["phases"])[0]
-    assert phase.__optional_keys__ == {"axles"}
+    assert phase.__optional_keys__ == {"axles", "axle_groups"}  # issue 13 item 2
     violation = _typed_dicts(hints["violations"])[0]
     assert violation.__optional_keys__ == {"envelope", "axis", "side", "first_exit", "station",
                                            "tank", "axle"}

@@ -505,12 +505,25 @@ def test_configurations(fleet):
             configs.define_configuration(s, actor="E", **kwargs)
         assert str(err.value) == msg
     assert snapshot(fleet) == before
+    # issue 13 item 9: a bare --remove of an item the ledger never installed is refused when
+    # the configuration is defined, not when it is first applied.
+    for owner in (dict(registration="KV-102"), dict(type_name="TT-A1")):
+        with pytest.raises(InputError) as err, session_scope(fleet) as s:
+            configs.define_configuration(s, "ghost-out", actor="E", **owner,
+                                         items=[{"action": "remove", "name": "ghost"}])
+        where = "on KV-102" if "registration" in owner else "on a vehicle of type TT-A1"
+        installed = "none" if "registration" in owner else "'medical rack'"
+        assert str(err.value) == (
+            f"--remove = 'ghost': an item installed {where} by its ledger (installed: "
+            f"{installed}); record it with `wbledger install` first, or give NAME=MASS@ARM for "
+            "an item the ledger does not hold")
+    assert snapshot(fleet) == before
+    # An item removed after the definition is still caught when the configuration is applied.
+    remove(fleet, "KV-101", "medical rack")
     with pytest.raises(ConflictError) as err, session_scope(fleet) as s:
-        configs.define_configuration(s, "medevac", actor="E", registration="KV-102",
-                                     items=[{"action": "remove", "name": "medical rack"}])
-        configs.configuration_items(s, "KV-102", "medevac")
+        configs.configuration_items(s, "KV-101", "medevac")
     assert str(err.value).startswith("configuration 'medevac' removes 'medical rack', which is "
-                                     "not installed on KV-102 by its ledger")
+                                     "not installed on KV-101 by its ledger")
     with session_scope(fleet) as s:
         again = configs.define_configuration(
             s, "cargo-pod", actor="F", type_name="TT-A1", replace=True,
