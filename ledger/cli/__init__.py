@@ -84,9 +84,9 @@ def _root(
 
 
 def _register() -> None:
-    from ledger.cli import dbcmds, types, vehicles
+    from ledger.cli import dbcmds, record, types, vehicles
 
-    for module in (dbcmds, types, vehicles):
+    for module in (dbcmds, types, vehicles, record):
         module.register(app)
     # Groups added by later modules register themselves the same way.
     import importlib

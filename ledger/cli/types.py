@@ -21,20 +21,20 @@ def register(app: typer.Typer) -> None:
 def import_(ctx: typer.Context,
             files: list[Path] = typer.Argument(..., help="Type files (TOML) to import."),
             max_size: str = common.max_size_option(INPUT_LIMIT),
+            dry_run: bool = typer.Option(False, "--dry-run",
+                                         help="Show what would change from the current "
+                                              "revision and which vehicles would move onto "
+                                              "the new one; write nothing."),
             as_json: bool = common.JSON_OPTION) -> None:
-    """Import type files; a changed file becomes a new revision of its type."""
-    from ledger.services.types import import_types, read_type_files
+    """Import type files; a changed file becomes a new revision of its type, and every
+    vehicle of the type moves onto it (the changes and the vehicles are listed)."""
+    from ledger.report.type_changes import render_type_import
+    from ledger.services.types import import_types, preview_types, read_type_files
 
     # Every file read once and valid before the database is opened or anything written.
     parsed = read_type_files(files, max_size=common.size_limit(max_size))
-    results = import_types(common.state(ctx).engine(), parsed)
-
-    def render(rows):
-        for row in rows:
-            state = "imported as" if row["new_revision"] else "unchanged, already"
-            typer.echo(f"{row['file']}: type {row['type']} {state} revision {row['revision']}")
-
-    common.emit([r.to_dict() for r in results], render, as_json)
+    results = (preview_types if dry_run else import_types)(common.state(ctx).engine(), parsed)
+    common.emit([r.to_dict() for r in results], render_type_import, as_json)
 
 
 @type_app.command("list")
