@@ -20,6 +20,7 @@ from ledger.files import HISTORY_LIMIT
 DATE_OPTION = typer.Option(None, "--date", metavar="YYYY-MM-DD",
                            help="Date of the work (default today; not in the future).")
 REASON_HELP = "Why (kept in the ledger)."
+REASON_REQUIRED = typer.Option(..., "--reason", metavar="TEXT", help=REASON_HELP)
 REF_OPTION = typer.Option(None, "--ref", metavar="TEXT",
                           help="Work order or other reference.")
 REG_ARG = typer.Argument(..., metavar="REG", help="Registration or fleet id.")
@@ -108,8 +109,8 @@ def weigh(ctx: typer.Context, registration: str = REG_ARG,
 
 def install(ctx: typer.Context, registration: str = REG_ARG,
             item: str = typer.Argument(..., metavar="ITEM", help="Name of the item."),
-            mass: str = typer.Option(None, "--mass", metavar="MASS", help="Its mass."),
-            arm: str = typer.Option(None, "--arm", metavar="LENGTH",
+            mass: str = typer.Option(..., "--mass", metavar="MASS", help="Its mass."),
+            arm: str = typer.Option(..., "--arm", metavar="LENGTH",
                                     help="Its longitudinal arm (station)."),
             lat_arm: str = typer.Option(None, "--lat-arm", metavar="LENGTH",
                                         help="Lateral arm, + right (default 0)."),
@@ -118,7 +119,7 @@ def install(ctx: typer.Context, registration: str = REG_ARG,
             shape: str = typer.Option(None, "--shape", metavar="KIND,KEY=VALUE,…",
                                       help="Shape for inertia, e.g. box,length=20,width=12,"
                                            "height=8."),
-            reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+            reason: str = REASON_REQUIRED,
             reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
             by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record the installation of an item (adds its mass at its arms)."""
@@ -139,7 +140,7 @@ def remove(ctx: typer.Context, registration: str = REG_ARG,
                                        help="Its lateral arm, likewise."),
            vert_arm: str = typer.Option(None, "--vert-arm", metavar="LENGTH",
                                         help="Its vertical arm, likewise."),
-           reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+           reason: str = REASON_REQUIRED,
            reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record the removal of an installed item (with its recorded mass and arms)."""

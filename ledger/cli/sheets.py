@@ -238,9 +238,11 @@ def list_(ctx: typer.Context,
     rows = [s.summary() for s in saved]
 
     def render(rows):
+        from ledger.report.safe_text import clean
+
         if not rows:
             typer.echo("No saved sheets.")
-        for r in rows:
+        for r in clean(rows):
             amends = f", amends {r['amends']}" if r["amends"] else ""
             verdict = "in limits" if r["verdict"] == "in_limits" else "OUT OF LIMITS"
             typer.echo(f"{r['id']:>5}  {r['created_at'][:16]}  {r['registration']:<10} "

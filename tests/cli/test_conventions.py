@@ -111,9 +111,22 @@ def test_required_options_are_declared_required():
         text = getattr(param, "help", None) or ""
         if re.search(r"\brequired\b", text, re.IGNORECASE) and "unless" not in text:
             assert param.required, f"{where} {param.opts}: says required, is not declared so"
-    r = CliRunner().invoke(app, ["correct", "--help"])
-    row = next(ln for ln in r.stdout.splitlines() if "--reason" in ln)
-    assert "*" in row  # typer's mark of a required option
+
+
+#: Options without which the command always refuses to run: declared required, so that the help
+#: marks them and a missing one is named before anything is opened.
+ALWAYS_NEEDED = [("install", "--mass"), ("install", "--arm"), ("install", "--reason"),
+                 ("remove", "--reason"), ("correct", "--reason"), ("vehicle add", "--type"),
+                 ("corners", "--lf"), ("cg-height", "--wheel-radius")]
+
+
+@pytest.mark.parametrize("path,name", ALWAYS_NEEDED)
+def test_options_a_command_cannot_do_without_are_marked_required(path, name):
+    param = next(p for p in _command(path).params if name in p.opts)
+    assert param.required
+    r = CliRunner().invoke(app, [*path.split(), "--help"], terminal_width=100)
+    row = next(ln for ln in r.stdout.splitlines() if f" {name} " in ln)
+    assert row.lstrip("│ ").startswith("*"), row  # typer's mark of a required option
 
 
 def _command(path: str):
