@@ -62,11 +62,31 @@ class _LedgerGroup(TyperGroup):
 app = typer.Typer(
     cls=_LedgerGroup,
     no_args_is_help=True,
-    add_completion=False,
+    add_completion=True,  # --install-completion / --show-completion (bash, zsh, fish, pwsh)
     pretty_exceptions_enable=False,
     help="A weight-and-balance ledger for aircraft and road vehicles: empty-weight history, "
     "loading sheets checked against the CG envelope, fixes, and loaded inertia.",
 )
+
+
+# --- wbledger --version (issue 13 item 13) -------------------------------------------------------
+
+def _version(value: bool) -> None:
+    """Print the installed distribution's version (its metadata, not an import of the package)."""
+    if value:
+        from importlib.metadata import PackageNotFoundError, version
+
+        try:
+            text = version("wbledger")
+        except PackageNotFoundError:  # a checkout on sys.path, never installed
+            text = "(version unknown: not installed; `pip install -e .` records it)"
+        typer.echo(f"wbledger {text}")
+        raise typer.Exit(0)
+
+
+VERSION_OPTION = typer.Option(False, "--version", is_eager=True, callback=_version,
+                              help="Print the version of wbledger and exit.")
+# --------------------------------------------------------------------------------------------------
 
 
 @app.callback()
@@ -79,6 +99,7 @@ def _root(
         help="Database URL (SQLAlchemy form). Default: $WBLEDGER_DB, else a SQLite file in "
         "your user data directory.",
     ),
+    _show_version: bool = VERSION_OPTION,
 ) -> None:
     ctx.obj = common.State(db_url=db)
 

@@ -80,9 +80,10 @@ def actor(by: str | None) -> str:
     return name
 
 
-BY_OPTION = typer.Option(None, "--by", help="Who records this (default: $WBLEDGER_USER or "
-                         "login). On PostgreSQL, unless you own the ledger's tables, it is "
-                         "always your database user.")
+BY_OPTION = typer.Option(None, "--by", metavar="NAME",
+                         help="Who records this (default: $WBLEDGER_USER or login). On "
+                         "PostgreSQL, unless you own the ledger's tables, it is always your "
+                         "database user.")
 
 
 def max_size_option(default: int) -> Any:

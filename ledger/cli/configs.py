@@ -23,15 +23,16 @@ def define(ctx: typer.Context,
            name: str = typer.Argument(..., metavar="NAME", help="Name of the configuration."),
            type_name: str = TYPE_OPTION, registration: str = VEHICLE_OPTION,
            install: list[str] = typer.Option(None, "--install",
-                                             metavar="NAME=MASS@ARM[,LAT[,VERT]]",
+                                             metavar="ITEM=MASS@ARM[,LAT[,VERT]]",
                                              help="An item added in this configuration."),
            remove: list[str] = typer.Option(None, "--remove",
-                                            metavar="NAME[=MASS@ARM[,LAT[,VERT]]]",
-                                            help="An item taken out; NAME alone takes its mass "
+                                            metavar="ITEM[=MASS@ARM[,LAT[,VERT]]]",
+                                            help="An item taken out; ITEM alone takes its mass "
                                                  "and arms from the vehicle's ledger."),
            disable: list[str] = typer.Option(None, "--disable-station", metavar="STATION",
                                              help="A station not available in it."),
-           description: str = typer.Option(None, "--description", metavar="TEXT"),
+           description: str = typer.Option(None, "--description", metavar="TEXT",
+                                           help="What it is for (free text)."),
            replace: bool = typer.Option(False, "--replace", help="Redefine an existing one."),
            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Define a configuration of a type (--type) or of one vehicle (--vehicle)."""
@@ -60,7 +61,7 @@ def list_(ctx: typer.Context, type_name: str = TYPE_OPTION,
 
 @config_app.command("show")
 def show(ctx: typer.Context,
-         name: str = typer.Argument(..., metavar="NAME"),
+         name: str = typer.Argument(..., metavar="NAME", help="Name of the configuration."),
          type_name: str = TYPE_OPTION, registration: str = VEHICLE_OPTION,
          as_json: bool = common.JSON_OPTION) -> None:
     """Show one configuration; for a vehicle, with removed items resolved from its ledger."""

@@ -124,7 +124,8 @@ def _steps(fleet: Path, out: Path, today: dt.date) -> list[tuple[str, list[str]]
 
 
 def demo(ctx: typer.Context,
-         out: Path = typer.Option(Path("wbledger-demo"), "--out", help="Folder for the demo "
+         out: Path = typer.Option(Path("wbledger-demo"), "--out", metavar="FOLDER",
+                                  help="Folder for the demo "
                                   "database, PDFs and CSV files (made anew each run)."),
          ) -> None:
     """Run the main job on a fresh demo database of the invented demo fleet."""

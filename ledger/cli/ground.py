@@ -39,7 +39,7 @@ def register(app: typer.Typer) -> None:
 def corners(
     ctx: typer.Context,
     registration: str = typer.Argument(
-        None, metavar="[REG]", help="A registered vehicle: its type gives the wheelbase, "
+        None, metavar="REG", help="A registered vehicle: its type gives the wheelbase, "
         "tracks and display units (bare numbers take them)."),
     lf: str = typer.Option(..., "--lf", metavar="MASS", help="Left front wheel load."),
     rf: str = typer.Option(..., "--rf", metavar="MASS", help="Right front wheel load."),
@@ -100,8 +100,10 @@ def cg_height(
     dry_run: bool = typer.Option(False, "--dry-run", help="Compute and show; store nothing."),
     entry_date: str = typer.Option(None, "--date", metavar="YYYY-MM-DD",
                                    help="Date of the weighing (default today)."),
-    reason: str = typer.Option(None, "--reason", help="Why (shown in the history)."),
-    reference: str = typer.Option(None, "--ref", help="Work order or report number."),
+    reason: str = typer.Option(None, "--reason", metavar="TEXT",
+                               help="Why (shown in the history)."),
+    reference: str = typer.Option(None, "--ref", metavar="TEXT",
+                                  help="Work order or report number."),
     by: str = common.BY_OPTION,
     as_json: bool = common.JSON_OPTION,
 ) -> None:
@@ -135,8 +137,8 @@ def rules_list(as_json: bool = common.JSON_OPTION) -> None:
 
 @rules_app.command("show")
 def rules_show(
-    name: str = typer.Argument(..., help="Rule set name (see `axle-rules list`) or a .toml "
-                               "file."),
+    name: str = typer.Argument(..., metavar="NAME|FILE",
+                               help="Rule set name (see `axle-rules list`) or a .toml file."),
     table: bool = typer.Option(False, "--table", help="Add the bridge-formula table."),
     max_length: int = typer.Option(60, "--max-length", metavar="FT", min=4, max=200,
                                    help="Longest spread in the table, ft."),

@@ -12,6 +12,7 @@ from pathlib import Path
 import typer
 
 from ledger.cli import common
+from ledger.cli.conventions import examples
 from ledger.files import INPUT_LIMIT
 
 HELP = (
@@ -24,14 +25,17 @@ HELP = (
 
 
 def register(app: typer.Typer) -> None:
-    app.command("inertia", help=HELP)(inertia)
+    app.command("inertia", help=HELP, epilog=examples(
+        "wbledger inertia KVA-101",
+        "wbledger inertia KVA-101 --plan plan.toml --phase landing --assume-z '30 in'",
+        "wbledger inertia KVA-101 --configuration rear-seats-out --csv out.csv"))(inertia)
 
 
 def inertia(
     ctx: typer.Context,
     registration: str = typer.Argument(..., metavar="REG", help="The vehicle."),
-    config: str = typer.Option(None, "--config", metavar="NAME",
-                               help="Configuration to apply (default: the plan's, if any)."),
+    config: str = typer.Option(None, "--configuration", metavar="NAME",
+                               help="Configuration in use (default: the plan's, if any)."),
     plan: Path = typer.Option(None, "--plan", metavar="FILE",
                               help="Loading plan (TOML): persons, cargo and fuel are added."),
     phase: str = typer.Option(
@@ -46,7 +50,7 @@ def inertia(
                               help="Use the ledger as it stood on this date."),
     csv_file: Path = typer.Option(None, "--csv", metavar="FILE",
                                   help="Also write the figures as CSV for simulation tools."),
-    csv_layout: str = typer.Option("long", "--csv-layout", metavar="LAYOUT",
+    csv_layout: str = typer.Option("long", "--csv-layout", metavar="long|wide",
                                    help="long: one row per quantity; wide: one header row "
                                    "and one value row."),
     max_size: str = common.max_size_option(INPUT_LIMIT),

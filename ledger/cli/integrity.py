@@ -21,7 +21,7 @@ def register(app: typer.Typer) -> None:
 
 
 def verify(ctx: typer.Context,
-           registration: str = typer.Argument(None, metavar="[REG]",
+           registration: str = typer.Argument(None, metavar="REG",
                                               help="One vehicle (default: every one)."),
            expect: list[str] = typer.Option(None, "--expect", metavar="HASH",
                                             help="A hash kept outside the database (a ledger "

@@ -14,22 +14,36 @@ from pathlib import Path
 import typer
 
 from ledger.cli import common
+from ledger.cli.conventions import examples
 from ledger.files import HISTORY_LIMIT
 
 DATE_OPTION = typer.Option(None, "--date", metavar="YYYY-MM-DD",
                            help="Date of the work (default today; not in the future).")
 REASON_HELP = "Why (kept in the ledger)."
+REASON_REQUIRED = typer.Option(..., "--reason", metavar="TEXT", help=REASON_HELP)
 REF_OPTION = typer.Option(None, "--ref", metavar="TEXT",
                           help="Work order or other reference.")
 REG_ARG = typer.Argument(..., metavar="REG", help="Registration or fleet id.")
 
+WEIGH_EXAMPLES = examples(
+    "wbledger weigh KVA-101 --reading nose=480lb --tare nose=3lb \\\n"
+    "  --reading 'left main=572lb' --reading 'right main=576.5lb' \\\n"
+    "  --fuel 'left wing=2 USgal' --scales 'platform S/N 0000' --ref WO-0400")
+INSTALL_EXAMPLES = examples(
+    "wbledger install KVA-101 ELT --mass '3.5 lb' --arm '130 in' \\\n"
+    "  --reason 'ELT replaced' --ref WO-0417")
+REMOVE_EXAMPLES = examples(
+    "wbledger remove KVA-101 ELT --reason 'sent for repair' --ref WO-0420")
+
 
 def register(app: typer.Typer) -> None:
-    app.command("weigh")(weigh)
-    app.command("install")(install)
-    app.command("remove")(remove)
-    app.command("correct")(correct)
-    app.command("history")(history)
+    app.command("weigh", epilog=WEIGH_EXAMPLES)(weigh)
+    app.command("install", epilog=INSTALL_EXAMPLES)(install)
+    app.command("remove", epilog=REMOVE_EXAMPLES)(remove)
+    app.command("correct", epilog=examples(
+        "wbledger correct KVA-101 4 --reason 'fitted to KVA-102, not KVA-101'"))(correct)
+    app.command("history", epilog=examples(
+        "wbledger history KVA-101", "wbledger history KVA-101 --as-of 2025-06-30"))(history)
     app.command("export")(export)
     app.command("import-history")(import_history)
 
@@ -63,7 +77,7 @@ def weigh(ctx: typer.Context, registration: str = REG_ARG,
                                                  "point the type defines."),
           tare: list[str] = typer.Option(None, "--tare", metavar="POINT=MASS",
                                          help="Tare at a point (chocks, blocks)."),
-          fuel: list[str] = typer.Option(None, "--fuel", metavar="TANK=QUANTITY",
+          fuel: list[str] = typer.Option(None, "--fuel", metavar="TANK=QTY",
                                          help="Fuel in a tank as weighed (volume or mass); "
                                               "usable fuel is removed, unusable kept. A tank "
                                               "not named holds its unusable fuel."),
@@ -95,8 +109,8 @@ def weigh(ctx: typer.Context, registration: str = REG_ARG,
 
 def install(ctx: typer.Context, registration: str = REG_ARG,
             item: str = typer.Argument(..., metavar="ITEM", help="Name of the item."),
-            mass: str = typer.Option(None, "--mass", metavar="MASS", help="Its mass."),
-            arm: str = typer.Option(None, "--arm", metavar="LENGTH",
+            mass: str = typer.Option(..., "--mass", metavar="MASS", help="Its mass."),
+            arm: str = typer.Option(..., "--arm", metavar="LENGTH",
                                     help="Its longitudinal arm (station)."),
             lat_arm: str = typer.Option(None, "--lat-arm", metavar="LENGTH",
                                         help="Lateral arm, + right (default 0)."),
@@ -105,7 +119,7 @@ def install(ctx: typer.Context, registration: str = REG_ARG,
             shape: str = typer.Option(None, "--shape", metavar="KIND,KEY=VALUE,…",
                                       help="Shape for inertia, e.g. box,length=20,width=12,"
                                            "height=8."),
-            reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+            reason: str = REASON_REQUIRED,
             reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
             by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record the installation of an item (adds its mass at its arms)."""
@@ -122,9 +136,11 @@ def remove(ctx: typer.Context, registration: str = REG_ARG,
            mass: str = typer.Option(None, "--mass", metavar="MASS",
                                     help="Its mass, if not the one recorded at installation."),
            arm: str = typer.Option(None, "--arm", metavar="LENGTH", help="Its arm, likewise."),
-           lat_arm: str = typer.Option(None, "--lat-arm", metavar="LENGTH"),
-           vert_arm: str = typer.Option(None, "--vert-arm", metavar="LENGTH"),
-           reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
+           lat_arm: str = typer.Option(None, "--lat-arm", metavar="LENGTH",
+                                       help="Its lateral arm, likewise."),
+           vert_arm: str = typer.Option(None, "--vert-arm", metavar="LENGTH",
+                                        help="Its vertical arm, likewise."),
+           reason: str = REASON_REQUIRED,
            reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
            by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record the removal of an installed item (with its recorded mass and arms)."""
@@ -138,8 +154,8 @@ def remove(ctx: typer.Context, registration: str = REG_ARG,
 def correct(ctx: typer.Context, registration: str = REG_ARG,
             seq: int = typer.Argument(..., metavar="SEQ", help="Entry to reverse.",
                                       **common.ID_RANGE),
-            reason: str = typer.Option(None, "--reason", metavar="TEXT",
-                                       help="Why it is reversed (required)."),
+            reason: str = typer.Option(..., "--reason", metavar="TEXT",
+                                       help="Why it is reversed."),
             reference: str = REF_OPTION, entry_date: str = DATE_OPTION,
             by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Reverse an installation or removal with a new entry that says why."""

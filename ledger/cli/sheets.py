@@ -25,6 +25,7 @@ import typer
 from typer.core import TyperGroup
 
 from ledger.cli import common
+from ledger.cli.conventions import examples
 from ledger.files import INPUT_LIMIT
 
 __all__ = ["register", "sheet_app"]
@@ -47,7 +48,7 @@ sheet_app = typer.Typer(
 
 def register(app: typer.Typer) -> None:
     app.add_typer(sheet_app, name="sheet")
-    app.command("check")(check)
+    app.command("check", epilog=CHECK_EXAMPLES)(check)
 
 
 # --- shared options ----------------------------------------------------------------------------
@@ -63,12 +64,12 @@ VACATE = typer.Option([], "--vacate", metavar="SEAT", help="Empty a seat of the 
 CARGO = typer.Option([], "--cargo", metavar="STATION=MASS",
                      help="Cargo at a station ('baggage=40 lb'); replaces the plan's cargo "
                           "there (0 unloads it).")
-FUEL = typer.Option([], "--fuel", metavar="TANK=QTY[@D|@T]",
+FUEL = typer.Option([], "--fuel", metavar="TANK=QTY[@DENSITY|@TEMP]",
                     help="Usable fuel in a tank ('main=30 USgal'), optionally with a density "
                          "('@6.1 lb/USgal') or the fuel temperature ('@25 degC').")
 TAXI = typer.Option(None, "--taxi", metavar="QTY", help="Taxi fuel (volume or mass).")
 TRIP = typer.Option(None, "--trip", metavar="QTY", help="Trip fuel (volume or mass).")
-BURN = typer.Option(None, "--burn", metavar="SEQ",
+BURN = typer.Option(None, "--burn", metavar="proportional|TANK,…",
                     help="'proportional', or tanks in the order they are drained "
                          "('left,right').")
 CONFIG = typer.Option(None, "--configuration", metavar="NAME", help="Configuration in use.")
@@ -80,7 +81,8 @@ MASSES = typer.Option(None, "--standard-masses", metavar="SET",
 AXLE_RULES = typer.Option(None, "--axle-rules", metavar="NAME",
                           help="Ground vehicles: axle-group rule set shown as an advisory "
                                "(see `wbledger axle-rules list`).")
-WIDTH = typer.Option(80, "--width", min=60, max=240, help="Width of the terminal sheet.")
+WIDTH = typer.Option(80, "--width", metavar="N", min=60, max=240,
+                     help="Width of the terminal sheet, in columns.")
 MAX_SIZE = common.max_size_option(INPUT_LIMIT)
 PDF = typer.Option(None, "--pdf", metavar="FILE", help="Also write the sheet as a PDF to sign.")
 SVG = typer.Option(None, "--svg", metavar="FILE", help="Also write the sheet as SVG.")
@@ -129,9 +131,20 @@ def _exit_for(doc: dict) -> None:
         raise typer.Exit(1)
 
 
+PREPARE_EXAMPLES = examples(
+    "wbledger sheet plan.toml",
+    "wbledger sheet prepare plan.toml --save --pdf sheet.pdf",
+    "wbledger sheet KVA-101 --person pilot=82kg --cargo 'baggage=40 lb' \\\n"
+    "  --fuel 'left wing=20 USgal' --trip '12 USgal'",
+    "wbledger sheet plan.toml --configuration rear-seats-out --json")
+CHECK_EXAMPLES = examples(
+    "wbledger check plan.toml && echo in limits",
+    "wbledger check KVA-101 --person pilot=82kg --fuel 'left wing=20 USgal'")
+
+
 # --- commands -----------------------------------------------------------------------------------
 
-@sheet_app.command("prepare")
+@sheet_app.command("prepare", epilog=PREPARE_EXAMPLES)
 def prepare(ctx: typer.Context, target: str = PLAN_ARG,
             person: list[str] = PERSON, vacate: list[str] = VACATE, cargo: list[str] = CARGO,
             fuel: list[str] = FUEL, taxi: str = TAXI, trip: str = TRIP, burn: str = BURN,
@@ -159,7 +172,9 @@ def prepare(ctx: typer.Context, target: str = PLAN_ARG,
     _exit_for(doc)
 
 
-@sheet_app.command("amend")
+@sheet_app.command("amend", epilog=examples(
+    "wbledger sheet amend 12 --cargo 'baggage=25 lb'",
+    "wbledger sheet amend 12 --plan plan-late.toml --pdf amended.pdf"))
 def amend(ctx: typer.Context,
           sheet_id: int = typer.Argument(..., metavar="ID", help="The saved sheet to amend.",
                                          **common.ID_RANGE),
@@ -189,7 +204,8 @@ def amend(ctx: typer.Context,
     _exit_for(doc)
 
 
-@sheet_app.command("show")
+@sheet_app.command("show", epilog=examples(
+    "wbledger sheet show 12", "wbledger sheet show 12 --pdf sheet-12.pdf"))
 def show(ctx: typer.Context,
          sheet_id: int = typer.Argument(..., metavar="ID", help="A saved sheet.",
                                         **common.ID_RANGE),
@@ -207,11 +223,12 @@ def show(ctx: typer.Context,
                     "outside wbledger", 1)
 
 
-@sheet_app.command("list")
+@sheet_app.command("list", epilog=examples(
+    "wbledger sheet list", "wbledger sheet list KVA-101 --limit 5"))
 def list_(ctx: typer.Context,
-          registration: str = typer.Argument(None, metavar="[REG]",
+          registration: str = typer.Argument(None, metavar="REG",
                                              help="Only this vehicle's sheets."),
-          limit: int = typer.Option(50, "--limit", help="At most this many.",
+          limit: int = typer.Option(50, "--limit", metavar="N", help="At most this many.",
                                     **common.ID_RANGE),
           as_json: bool = common.JSON_OPTION) -> None:
     """List saved sheets, newest first."""
@@ -221,9 +238,11 @@ def list_(ctx: typer.Context,
     rows = [s.summary() for s in saved]
 
     def render(rows):
+        from ledger.report.safe_text import clean
+
         if not rows:
             typer.echo("No saved sheets.")
-        for r in rows:
+        for r in clean(rows):
             amends = f", amends {r['amends']}" if r["amends"] else ""
             verdict = "in limits" if r["verdict"] == "in_limits" else "OUT OF LIMITS"
             typer.echo(f"{r['id']:>5}  {r['created_at'][:16]}  {r['registration']:<10} "

@@ -7,6 +7,7 @@ from pathlib import Path
 import typer
 
 from ledger.cli import common
+from ledger.cli.conventions import examples
 from ledger.files import INPUT_LIMIT
 
 type_app = typer.Typer(help="Vehicle types: import type files and look at their revisions.",
@@ -17,9 +18,11 @@ def register(app: typer.Typer) -> None:
     app.add_typer(type_app, name="type")
 
 
-@type_app.command("import")
+@type_app.command("import", epilog=examples(
+    "wbledger type import my-type.toml", "wbledger type import types/*.toml --json"))
 def import_(ctx: typer.Context,
-            files: list[Path] = typer.Argument(..., help="Type files (TOML) to import."),
+            files: list[Path] = typer.Argument(..., metavar="FILE",
+                                               help="Type files (TOML) to import."),
             max_size: str = common.max_size_option(INPUT_LIMIT),
             dry_run: bool = typer.Option(False, "--dry-run",
                                          help="Show what would change from the current "
@@ -46,9 +49,11 @@ def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
     common.emit(list_types(common.state(ctx).engine()), render_type_list, as_json)
 
 
-@type_app.command("show")
-def show(ctx: typer.Context, name: str = typer.Argument(..., help="Type name."),
-         revision: int = typer.Option(None, "--revision", help="Revision (default: newest).",
+@type_app.command("show", epilog=examples(
+    "wbledger type show KV-P4", "wbledger type show KV-P4 --revision 1 --json"))
+def show(ctx: typer.Context, name: str = typer.Argument(..., metavar="NAME", help="Type name."),
+         revision: int = typer.Option(None, "--revision", metavar="N",
+                                      help="Revision (default: newest).",
                                       **common.ID_RANGE),
          as_json: bool = common.JSON_OPTION) -> None:
     """Show a type: limits, stations, tanks and envelopes, in its display units."""

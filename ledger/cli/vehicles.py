@@ -5,6 +5,7 @@ from __future__ import annotations
 import typer
 
 from ledger.cli import common
+from ledger.cli.conventions import examples
 
 vehicle_app = typer.Typer(help="Vehicles: registrations of an imported type.",
                           no_args_is_help=True)
@@ -14,12 +15,13 @@ def register(app: typer.Typer) -> None:
     app.add_typer(vehicle_app, name="vehicle")
 
 
-@vehicle_app.command("add")
+@vehicle_app.command("add", epilog=examples("wbledger vehicle add KVA-101 --type KV-P4"))
 def add(ctx: typer.Context,
         registration: str = typer.Argument(..., metavar="REG", help="Registration or fleet id."),
-        type_name: str = typer.Option(..., "--type", help="Name of an imported type."),
-        serial: str = typer.Option(None, "--serial", help="Serial number."),
-        note: str = typer.Option(None, "--note", help="Free text."),
+        type_name: str = typer.Option(..., "--type", metavar="NAME",
+                                      help="Name of an imported type."),
+        serial: str = typer.Option(None, "--serial", metavar="TEXT", help="Serial number."),
+        note: str = typer.Option(None, "--note", metavar="TEXT", help="Free text."),
         ) -> None:
     """Add a vehicle of an imported type."""
     import shlex
@@ -32,7 +34,8 @@ def add(ctx: typer.Context,
                f"`wbledger weigh {shlex.quote(reg)}`.")
 
 
-@vehicle_app.command("list")
+@vehicle_app.command("list", epilog=examples(
+    "wbledger vehicle list", "wbledger vehicle list --json"))
 def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
     """The fleet: each vehicle's current empty mass and CG, last weighing and warnings."""
     from ledger.report.ledger import render_fleet
@@ -42,8 +45,10 @@ def list_(ctx: typer.Context, as_json: bool = common.JSON_OPTION) -> None:
     common.emit(data, render_fleet, as_json)
 
 
-@vehicle_app.command("show")
-def show(ctx: typer.Context, registration: str = typer.Argument(..., metavar="REG"),
+@vehicle_app.command("show", epilog=examples("wbledger vehicle show KVA-101"))
+def show(ctx: typer.Context,
+         registration: str = typer.Argument(..., metavar="REG",
+                                            help="Registration or fleet id."),
          as_json: bool = common.JSON_OPTION) -> None:
     """One vehicle: its type, current empty mass and CG, and last entries."""
     from ledger.report.ledger import render_vehicle

@@ -6,19 +6,16 @@ revision it came from; the text form shows the same in the type's display units.
 
 from __future__ import annotations
 
+from ledger.report.safe_text import clean, plain, text_console
+
 __all__ = ["render_type_list", "render_type"]
-
-
-def _console():
-    from rich.console import Console
-
-    return Console(highlight=False, soft_wrap=False)
 
 
 def render_type_list(rows: list[dict]) -> None:
     from rich.table import Table
 
-    con = _console()
+    con = text_console()
+    rows = clean(rows)
     if not rows:
         con.print("No types yet. Import one with `wbledger type import FILE`.")
         return
@@ -43,16 +40,17 @@ def render_type(shown) -> None:
     ``shown`` is a :class:`ledger.services.types.TypeRevision`.
     """
     from rich.table import Table
+    from rich.text import Text
 
     vt = shown.vehicle_type
     u = vt.units
     m, ln = u.mass, u.length
-    con = _console()
+    con = text_console()
 
-    def say(text: str) -> None:
-        con.print(text, markup=False)
+    def say(text: str) -> None:  # every line holds text from the type file: shown as text
+        con.print(plain(text))
 
-    con.print(f"[bold]{vt.name}[/bold]  {vt.title}", markup=True)
+    con.print(Text.assemble((plain(vt.name), "bold"), "  ", plain(vt.title)))
     say(f"kind {vt.kind}; revision {shown.revision} imported {shown.imported_at[:19]}; "
         f"sha256 {shown.content_sha256[:12]}")
     say(f"display units: mass {m}, length {ln}, volume {u.volume}, "
@@ -76,7 +74,7 @@ def render_type(shown) -> None:
         for col in ("name", "kind", f"x ({ln})", f"y ({ln})", f"max ({m})"):
             t.add_column(col, justify="left" if col in ("name", "kind") else "right")
         for s in vt.stations:
-            t.add_row(s.name, s.kind, _num(s.x_m, ln), _num(s.y_m, ln),
+            t.add_row(plain(s.name), plain(s.kind), _num(s.x_m, ln), _num(s.y_m, ln),
                       "-" if s.max_mass_kg is None else _num(s.max_mass_kg, m, 0))
         con.print(t)
     if vt.tanks:
@@ -86,7 +84,8 @@ def render_type(shown) -> None:
             t.add_column(col, justify="left" if col in ("name", "fluid", "arm table") else "right")
         for tk in vt.tanks:
             qunit = u.volume if tk.basis == "volume" else m
-            t.add_row(tk.name, tk.fluid, _fmt(tk.capacity, qunit), _fmt(tk.unusable, qunit),
+            t.add_row(plain(tk.name), plain(tk.fluid), _fmt(tk.capacity, qunit),
+                      _fmt(tk.unusable, qunit),
                       _num(tk.x_m, ln), f"{len(tk.arm_table)} rows" if tk.arm_table else "fixed")
         con.print(t)
     for env in vt.envelopes:

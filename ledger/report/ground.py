@@ -13,6 +13,7 @@ import io
 from collections.abc import Mapping
 from typing import TYPE_CHECKING, Any
 
+from ledger.report.safe_text import clean
 from ledger.units import fixed, to_unit
 
 if TYPE_CHECKING:
@@ -49,9 +50,9 @@ def _short(m: float, unit: str) -> str:
 
 
 def _console(console, width):
-    from rich.console import Console
+    from ledger.report.safe_text import text_console
 
-    return console if console is not None else Console(width=width, highlight=False)
+    return console if console is not None else text_console(width=width)
 
 
 def simple_table(headers, rows, numeric=()):
@@ -99,6 +100,7 @@ def render_corners(doc: CornersDocument, console: Any = None, width: int = 80) -
     """Print a ``wbledger.corners/1`` document."""
     from rich.text import Text
 
+    doc = clean(doc)
     console = _console(console, width)
     w = max(60, min(width, console.width))
     mu, lu = _units(doc)
@@ -142,6 +144,7 @@ def render_cg_height(doc: CgHeightDocument, console: Any = None, width: int = 80
     """Print a ``wbledger.cg-height/1`` document (and whether it was stored)."""
     from rich.text import Text
 
+    doc = clean(doc)
     console = _console(console, width)
     w = max(60, min(width, console.width))
     mu, lu = _units(doc)
@@ -184,6 +187,7 @@ def render_rule_list(rows: list[dict], console=None, width: int = 80) -> None:
     """Print the rule sets found (``wbledger axle-rules list``)."""
     from rich.text import Text
 
+    rows = clean(rows)
     console = _console(console, width)
     w = max(60, min(width, console.width))
     if not rows:
@@ -201,6 +205,7 @@ def render_rule_set(doc: RuleSetDocument, console: Any = None, width: int = 80) 
     """Print one rule set, with its bridge table if the document has one."""
     from rich.text import Text
 
+    doc = clean(doc)
     console = _console(console, width)
     w = max(60, min(width, console.width))
     _title(console, f"Axle rules {doc['name']}: {doc['title']}", w)

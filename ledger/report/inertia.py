@@ -44,6 +44,7 @@ from typing import TYPE_CHECKING, Any
 
 from ledger.files import write_output
 from ledger.report.ground import simple_table as table
+from ledger.report.safe_text import clean, text_console
 
 if TYPE_CHECKING:
     from ledger.analysis.inertia_types import InertiaDocument
@@ -200,12 +201,12 @@ class _Screen:
 def render_inertia(doc: InertiaDocument, console: Any = None, width: int = 80) -> None:
     """Print an inertia document in the terminal, at most ``width`` (≥ 60) columns wide."""
     from rich import box
-    from rich.console import Console
     from rich.panel import Panel
     from rich.text import Text
 
+    doc = clean(doc)
     if console is None:
-        console = Console(width=width, highlight=False)
+        console = text_console(width=width)
     screen = _Screen(console, max(60, min(width, console.width)))
     _heading(screen, doc)
     _mass_and_cg(screen, doc)

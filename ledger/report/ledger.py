@@ -10,6 +10,7 @@ tolerance ``!``.
 from __future__ import annotations
 
 from ledger.caution import CAUTION_SHORT
+from ledger.report.safe_text import clean, text_console
 from ledger.units import display_decimals, to_unit
 
 __all__ = [
@@ -27,12 +28,6 @@ __all__ = [
 
 KIND_WORDS = {"weighing": "weighing", "install": "install", "remove": "remove",
               "correction": "correction", "cg_height": "CG height"}
-
-
-def _console():
-    from rich.console import Console
-
-    return Console(highlight=False, soft_wrap=False)
 
 
 def _num(value: float, digits: int, signed: bool = False) -> str:
@@ -86,10 +81,11 @@ def _pct(value: float | None) -> str:
 
 def render_fleet(rows: list[dict]) -> None:
     """The fleet list: one line per vehicle (``wbledger vehicle list``)."""
+    rows = clean(rows)
     from rich import box
     from rich.table import Table
 
-    con = _console()
+    con = text_console()
     if not rows:
         con.print("No vehicles yet. Add one with `wbledger vehicle add REG --type NAME`.")
         return
@@ -120,7 +116,8 @@ def render_fleet(rows: list[dict]) -> None:
 
 def render_vehicle(d: dict) -> None:
     """One vehicle (``wbledger vehicle show``)."""
-    con = _console()
+    d = clean(d)
+    con = text_console()
     u = d["units"]
     con.print(f"{d['registration']}  type {d['type']} rev {d['type_revision']} "
               f"({d['type_title']})", overflow="fold")
@@ -233,12 +230,13 @@ def _history_table(con, lines: list[dict], u: dict, has_mac: bool) -> None:
         table.add_row(*row)
     con.print(table)
     for note in notes:
-        con.print(note, overflow="fold", markup=False)
+        con.print(note, overflow="fold")
 
 
 def render_history(doc: dict) -> None:
     """A vehicle's running record (``wbledger history``)."""
-    con = _console()
+    doc = clean(doc)
+    con = text_console()
     u = doc["units"]
     title = f"History of {doc['registration']} (type {doc['type']} rev {doc['type_revision']})"
     if doc["as_of"]:
@@ -265,7 +263,8 @@ def render_history(doc: dict) -> None:
 
 def render_entry(doc: dict) -> None:
     """One entry just recorded (``weigh``, ``install``, ``remove``, ``correct``)."""
-    con = _console()
+    doc = clean(doc)
+    con = text_console()
     u = doc["units"]
     line = doc["entry"]
     con.print(f"Recorded entry {line['seq']} of {doc['registration']}: {_what(line)}",
@@ -292,7 +291,8 @@ def render_entry(doc: dict) -> None:
 
 def render_verify(doc: dict) -> None:
     """What ``wbledger verify`` found: each vehicle, then types and guards."""
-    con = _console()
+    doc = clean(doc)
+    con = text_console()
     if not doc["vehicles"] and not doc["types"]:
         con.print("No vehicles.")
     for r in doc["vehicles"]:
@@ -329,7 +329,8 @@ def render_verify(doc: dict) -> None:
 
 
 def render_import(d: dict) -> None:
-    con = _console()
+    d = clean(d)
+    con = text_console()
     if d["imported"] == 0:
         con.print(f"Nothing to import into {d['registration']}: the file has no entries.")
         return
@@ -350,7 +351,8 @@ def _item_text(it: dict, units: dict | None) -> str:
 
 
 def render_configurations(rows: list[dict]) -> None:
-    con = _console()
+    rows = clean(rows)
+    con = text_console()
     if not rows:
         con.print("No configurations.")
         return
@@ -362,7 +364,8 @@ def render_configurations(rows: list[dict]) -> None:
 
 
 def render_configuration(c: dict) -> None:
-    con = _console()
+    c = clean(c)
+    con = text_console()
     u = c.get("units")
     con.print(f"Configuration {c['name']} ({c['source']} {c['owner']})", overflow="fold")
     if c["description"]:

@@ -34,6 +34,7 @@ from rich.rule import Rule
 from rich.table import Table
 from rich.text import Text
 
+from ledger.report.safe_text import clean
 from ledger.report.sheet_charts import ChartData, mass_lines_legend
 from ledger.report.sheet_format import DASH
 from ledger.report.sheet_tables import TableData
@@ -80,6 +81,7 @@ def render_sheet(doc: dict, console: Console | None = None, width: int = 80) -> 
         Layout width in columns; the sheet never prints wider than this (or than the
         console, whichever is narrower). At least 60.
     """
+    doc = clean(doc)  # stored text shown as text (issue 13 item 10)
     if console is None:
         console = Console(width=width, highlight=False)
     view = SheetView(doc)
@@ -226,6 +228,7 @@ def check_lines(doc: dict, width: int = 80) -> list[str]:
     """
     import textwrap
 
+    doc = clean(doc)  # stored text shown as text (issue 13 item 10)
     ok = doc["verdict"] == "in_limits"
     lines = [f"{doc['vehicle']['registration']}: {'IN LIMITS' if ok else 'OUT OF LIMITS'}"]
 

@@ -124,8 +124,8 @@ def _read_plan(path: Path, registration: str, vtype: VehicleType, config: str | 
                          source=str(path))
     parsed = parse_plan(raw, vtype, source=str(path))
     if config is not None and parsed.configuration not in (None, config):
-        raise InputError("--config", config, f"the plan's configuration "
-                         f"{parsed.configuration!r}, or no --config")
+        raise InputError("--configuration", config, f"the plan's configuration "
+                         f"{parsed.configuration!r}, or no --configuration")
     return parsed
 
 

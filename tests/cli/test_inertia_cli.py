@@ -146,7 +146,7 @@ def _empty():
 
 def test_inertia_of_the_empty_vehicle_with_a_configuration(fleet):
     fleet.set_z()
-    r = fleet("inertia", REG, "--config", "pod", "--json")
+    r = fleet("inertia", REG, "--configuration", "pod", "--json")
     assert r.exit_code == 0, r.stderr
     doc = json.loads(r.stdout)
     m0, x0, y0 = _empty()
@@ -240,7 +240,7 @@ def test_missing_vertical_cg_is_one_line_and_writes_nothing(fleet, tmp_path):
     ([REG, "--csv-layout", "tall"], "Error: --csv-layout = 'tall': one of long, wide\n"),
     ([REG, "--phase", "landing"],
      "Error: --phase = 'landing': only with --plan (the phase picks its fuel)\n"),
-    ([REG, "--config", "nothing"], None),
+    ([REG, "--configuration", "nothing"], None),
 ])
 def test_bad_input_exits_2_with_one_line(fleet, args, message):
     fleet.set_z()

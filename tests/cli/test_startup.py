@@ -20,7 +20,8 @@ print(sorted({{m.split(".")[0] for m in sys.modules}} & set({heavy!r})))
 """
 
 
-@pytest.mark.parametrize("argv", [["wbledger", "--help"], ["wbledger", "type", "--help"],
+@pytest.mark.parametrize("argv", [["wbledger", "--help"], ["wbledger", "--version"],
+                                  ["wbledger", "type", "--help"],
                                   ["wbledger", "vehicle", "--help"]])
 def test_help_imports_no_heavy_library(argv):
     out = subprocess.run([sys.executable, "-c", PROBE.format(argv=argv, heavy=HEAVY)],

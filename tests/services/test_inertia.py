@@ -59,7 +59,7 @@ def test_a_plan_for_another_configuration_is_refused(fleet, engine_of):
     plan.write_text(case.PLAN.replace('vehicle = "KV-I1"',
                                       'vehicle = "KV-I1"\nconfiguration = "pod"'),
                     encoding="utf-8")
-    with pytest.raises(InputError, match="--config"):
+    with pytest.raises(InputError, match="--configuration"):
         inertia_report(engine_of, case.REG, plan=plan, config="other")
 
 
