@@ -54,6 +54,8 @@ def test_wheel_install_runs_migrations(tmp_path):
                           env={**env, "WBLEDGER_DB": ""}, cwd=tmp_path, capture_output=True,
                           text=True)
     assert demo.returncode == 0, demo.stderr[-2000:]
-    assert "$ wbledger sheet prepare demo/" not in demo.stdout  # fleet paths are the wheel's
+    # The fleet comes from the wheel, copied into the demo's folder for short paths.
+    assert (tmp_path / "demo" / "fleet" / "plans" / "kva-101-local.toml").is_file()
+    assert "demo/fleet/plans/kva-101-local.toml" in demo.stdout
     assert (tmp_path / "demo" / "kva-101-local.pdf").read_bytes().startswith(b"%PDF")
     assert "CAUTION" in demo.stdout

@@ -25,7 +25,7 @@ def add(ctx: typer.Context,
     from ledger.services.fleet import add_vehicle
 
     add_vehicle(common.state(ctx).engine(), registration, type_name, serial=serial, note=note)
-    typer.echo(f"Added {registration} ({type_name}). Record its first weighing with "
+    typer.echo(f"Added {registration} ({type_name}); next, its first weighing: "
                f"`wbledger weigh {registration}`.")
 
 
