@@ -88,7 +88,7 @@ def test_it_shows_every_type_a_configuration_an_amendment_and_an_export(demo_run
     assert "amends sheet #1" in out and (where / "demo" / "kva-101-ledger.csv").is_file()
 
 
-def test_echoed_commands_run_as_printed(demo_run):
+def test_echoed_commands_run_as_printed(demo_run, monkeypatch):
     """Each command is one shell command (quoted, continued with ``\\``); the paths it names
     are short and relative, and re-running a few verbatim in the demo's folder, with the
     database the demo says to export, works."""
@@ -102,16 +102,13 @@ def test_echoed_commands_run_as_printed(demo_run):
     again = [c for c in commands if re.search(r" (vehicle list|config show|check KVA-101 |"
                                               r"sheet prepare \S+aft-cg|verify$)", c)]
     assert len(again) == 5
-    os.chdir(where)
-    try:
-        for command in again:
-            words = shlex.split(command)
-            assert words[:len(prog)] == prog
-            assert not any(w.startswith("/") for w in words[len(prog):])  # short paths
-            res = runner.invoke(app, words[len(prog):], env=env, catch_exceptions=False)
-            assert res.exit_code == (1 if "aft-cg" in command else 0), (command, res.output)
-    finally:
-        os.chdir(REPO)
+    monkeypatch.chdir(where)
+    for command in again:
+        words = shlex.split(command)
+        assert words[:len(prog)] == prog
+        assert not any(w.startswith("/") for w in words[len(prog):])  # short paths
+        res = runner.invoke(app, words[len(prog):], env=env, catch_exceptions=False)
+        assert res.exit_code == (1 if "aft-cg" in command else 0), (command, res.output)
     # The program prefix itself runs (here `python -m ledger` or `wbledger`).
     done = subprocess.run([*prog, "vehicle", "list"], cwd=where, capture_output=True,
                           text=True, env={**os.environ, **env, "PYTHONPATH": str(REPO)})
