@@ -96,13 +96,18 @@ def test_demo_database_sheets_and_exports_are_private(umask, tmp_path, monkeypat
     code, stdout, stderr = run("demo", "--out", out)
     assert code == 0, stderr
     assert "Prove that nobody rewrote the history." in stdout
-    made = {p.name: mode(p) for p in out.iterdir()}
+    made = {p.name: mode(p) for p in out.iterdir() if p.name != "fleet"}
     # SQLite may leave its -wal and -shm files beside the database; if so they count too.
     assert set(made) - {"demo.sqlite3-wal", "demo.sqlite3-shm"} == {
         "demo.sqlite3", "kva-101-local.pdf", "kva-t75-delivery.pdf", "kva-t75-inertia.csv",
-        "kva-d07-inertia.csv", "checkpoint.json"}
+        "kva-d07-inertia.csv", "kva-101-ledger.csv", "checkpoint.json"}
     assert set(made.values()) == {"0o600"}, made
     assert mode(out) == "0o700"
+    # The copy of the demo fleet the demo's commands name (issue 13 item 21): private too.
+    fleet = {p.relative_to(out).as_posix(): mode(p) for p in (out / "fleet").rglob("*")}
+    assert {"fleet/kv-p4.toml", "fleet/plans", "fleet/plans/kva-101-local.toml"} <= set(fleet)
+    assert set(fleet.values()) == {"0o600", "0o700"}, fleet
+    assert {fleet["fleet/plans"], mode(out / "fleet")} == {"0o700"}
 
     db = ["--db", f"sqlite:///{out / 'demo.sqlite3'}"]
     outputs = tmp_path / "outputs"

@@ -65,17 +65,18 @@ def checkpoint(ctx: typer.Context,
     `wbledger verify --against FILE` catches a rewrite, truncation or forged append since."""
     from ledger.files import check_output_path
     from ledger.services.integrity import write_checkpoint
+    from ledger.units.display import counted
 
     check_output_path(output, "FILE")
     summary = write_checkpoint(common.state(ctx).engine(), output, sign=sign).to_dict()
 
     def render(d):
-        typer.echo(f"Wrote checkpoint {d['file']}: {d['types']} types, {d['vehicles']} "
-                   f"vehicles, {d['configurations']} configurations"
-                   f"{', signed' if d['signed'] else ''}.")
+        counts = ", ".join(counted(d[k], k[:-1]) for k in ("types", "vehicles", "configurations"))
+        typer.echo(f"Wrote checkpoint {d['file']}:")
+        typer.echo(f"  {counts}{', signed' if d['signed'] else ''}.")
         typer.echo(f"  digest {d['digest']}")
-        typer.echo("Keep it where the database's users cannot write; check later with "
-                   f"`wbledger verify --against {d['file']}`.")
+        typer.echo("Keep it where the database's users cannot write. Check later with")
+        typer.echo(f"`wbledger verify --against {d['file']}`.")
 
     common.emit(summary, render, as_json)
 

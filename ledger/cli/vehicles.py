@@ -30,7 +30,7 @@ def add(ctx: typer.Context,
 
     reg = add_vehicle(common.state(ctx).engine(), registration, type_name, serial=serial,
                       note=note)
-    typer.echo(f"Added {reg} ({type_name}). Record its first weighing with "
+    typer.echo(f"Added {reg} ({type_name}); next, its first weighing: "
                f"`wbledger weigh {shlex.quote(reg)}`.")
 
 

@@ -12,6 +12,7 @@ from __future__ import annotations
 from ledger.caution import CAUTION_SHORT
 from ledger.report.safe_text import clean, text_console
 from ledger.units import display_decimals, to_unit
+from ledger.units.display import counted
 
 __all__ = [
     "render_fleet",
@@ -140,7 +141,8 @@ def render_vehicle(d: dict) -> None:
                     if s["delta_percent_mac"] is not None else ""))
         con.print(f"Last weighing: entry {w['seq']} on {w['entry_date']}{since}",
                   overflow="fold")
-        con.print(f"Ledger: {d['entries']} entries, head hash {d['head_hash'][:16]}… "
+        entries = counted(d["entries"], "entry", "entries")
+        con.print(f"Ledger: {entries}, head hash {d['head_hash'][:16]}… "
                   "(`wbledger verify` checks it)", overflow="fold")
     for w in d["warnings"]:
         con.print(f"! {w['message']}", overflow="fold")
@@ -297,9 +299,9 @@ def render_verify(doc: dict) -> None:
         con.print("No vehicles.")
     for r in doc["vehicles"]:
         if r["ok"]:
-            sheets = (f", {r['sheets']} saved sheet{'s' if r['sheets'] != 1 else ''}"
-                      if r["sheets"] else "")
-            con.print(f"{r['registration']}: {r['entries']} entries{sheets}, chain verified")
+            sheets = f", {counted(r['sheets'], 'saved sheet')}" if r["sheets"] else ""
+            entries = counted(r["entries"], "entry", "entries")
+            con.print(f"{r['registration']}: {entries}{sheets}, chain verified")
             if r["head_hash"]:
                 con.print(f"  head {r['head_hash']}")
             if r["sheets"]:
@@ -308,8 +310,8 @@ def render_verify(doc: dict) -> None:
             con.print(f"{r['registration']}: NOT VERIFIED: {r['problem']}", overflow="fold")
     for t in doc["types"]:
         if t["ok"]:
-            con.print(f"type {t['type']}: {t['revisions']} revision"
-                      f"{'s' if t['revisions'] != 1 else ''}, verified", overflow="fold")
+            con.print(f"type {t['type']}: {counted(t['revisions'], 'revision')}, verified",
+                      overflow="fold")
         else:
             con.print(f"type {t['type']}: NOT VERIFIED: {t['problem']}", overflow="fold")
     for e in doc["expected"]:

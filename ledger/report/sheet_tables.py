@@ -276,8 +276,8 @@ def axles_table(view: SheetView) -> TableData | None:
         src = f" ({rule_set['source']})" if rule_set.get("source") else ""
         notes.append(f"Axle-group rules: {rule_set['name']}{src}")
     notes += [f"Advisory: {r}" for r in view.axle_rules()]
-    if rule_set.get("advisory"):
-        notes.append(rule_set["advisory"])
+    # The rule set's advisory is not repeated here: the sheet prints its ground caution, which
+    # says the same, right below this table (issue 13 item 21).
     return TableData("Axles", headers, rows, set(range(1 + off, 6 + off)), notes)
 
 

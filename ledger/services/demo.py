@@ -11,26 +11,35 @@ import os
 from dataclasses import dataclass
 from pathlib import Path
 
-from sqlalchemy import func, select
+from sqlalchemy import func, make_url, select
 
 from ledger.errors import ConflictError
-from ledger.files import make_private_folder
+from ledger.files import make_private_folder, write_output
 from ledger.services.database import open_database
 from ledger.store.db import ENV_VAR, table_names
 from ledger.store.models import VehicleRow
 
-__all__ = ["DEMO_DB_NAME", "DemoDatabase", "demo_database"]
+__all__ = ["DEMO_DB_NAME", "DEMO_FLEET_FOLDER", "DemoDatabase", "copy_fleet", "demo_database"]
 
 #: The demo's own database file in its output folder.
 DEMO_DB_NAME = "demo.sqlite3"
+#: The folder of the output folder that receives a copy of the demo fleet's files.
+DEMO_FLEET_FOLDER = "fleet"
 
 
 @dataclass(frozen=True)
 class DemoDatabase:
-    """Where the demo writes: ``url`` (SQLAlchemy form) and ``out``, its output folder."""
+    """Where the demo writes: ``url`` (SQLAlchemy form) and ``out``, its output folder.
+
+    ``shown_url`` is ``url`` with any password hidden, for printing.
+    """
 
     url: str
     out: Path
+
+    @property
+    def shown_url(self) -> str:
+        return make_url(self.url).render_as_string(hide_password=True)
 
 
 def _vehicle_count(url: str) -> int:
@@ -72,3 +81,15 @@ def demo_database(url: str | None, out: Path) -> DemoDatabase:
         url = f"sqlite:///{path}"
     make_private_folder(out)  # 0700 when new; an existing folder keeps its mode
     return DemoDatabase(url, out)
+
+
+def copy_fleet(fleet: Path, out: Path) -> Path:
+    """Copy the demo fleet's type files and plans from ``fleet`` into ``out/fleet`` and return
+    that folder, so that the demo's commands name short paths the user can run and edit
+    (issue 13 item 21). Files of an earlier run are replaced; like everything the demo writes,
+    the copies are private (0600 in 0700 folders)."""
+    target = out / DEMO_FLEET_FOLDER
+    make_private_folder(target / "plans")
+    for source in [*fleet.glob("*.toml"), *(fleet / "plans").glob("*.toml")]:
+        write_output(target / source.relative_to(fleet), source.read_bytes(), "--out")
+    return target

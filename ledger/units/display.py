@@ -8,7 +8,8 @@ from dataclasses import dataclass
 from ledger.errors import UnitError
 from ledger.units.conversion import canonical_unit, from_unit, to_unit
 
-__all__ = ["DisplayUnits", "display_decimals", "fixed", "format_quantity", "nonzero_excess"]
+__all__ = ["DisplayUnits", "counted", "display_decimals", "fixed", "format_quantity",
+           "nonzero_excess"]
 
 
 def fixed(value: float, decimals: int, signed: bool = False) -> str:
@@ -27,6 +28,15 @@ def fixed(value: float, decimals: int, signed: bool = False) -> str:
     if float(text) == 0.0:
         text = text.lstrip("+-")
     return text
+
+
+def counted(n: int, singular: str, plural: str | None = None) -> str:
+    """``n`` and the noun that agrees with it (``plural`` defaults to ``singular + "s"``).
+
+    >>> counted(1, "entry", "entries"), counted(2, "entry", "entries"), counted(0, "type")
+    ('1 entry', '2 entries', '0 types')
+    """
+    return f"{n} {singular if n == 1 else (plural or singular + 's')}"
 
 
 def format_quantity(value_si: float, unit: str, digits: int = 1) -> str:

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import json
 
+import pytest
+
 from tests.conftest import DEMO_FLEET
 
 P4 = DEMO_FLEET / "kv-p4.toml"
@@ -39,20 +41,21 @@ def test_changed_type_file_makes_a_new_revision(cli, tmp_path):
     _init(cli)
     cli("type", "import", str(P4))
     changed = tmp_path / "p4-changed.toml"
-    changed.write_text(P4.read_text().replace('max_takeoff = "2450 lb"', 'max_takeoff = "2400 lb"')
-                       if 'max_takeoff = "2450 lb"' in P4.read_text()
-                       else P4.read_text() + "\n# a comment changes the source, not the content\n")
+    source = P4.read_text()
+    assert "\nmax_takeoff = 2315\n" in source  # the demo type's maximum take-off mass, lb
+    changed.write_text(source.replace("\nmax_takeoff = 2315\n", "\nmax_takeoff = 2300\n"))
     res = cli("type", "import", str(changed))
-    assert res.exit_code == 0
+    assert res.exit_code == 0 and "revision 2" in res.stdout
     first = json.loads(cli("type", "show", "KV-P4", "--revision", "1", "--json").stdout)
     newest = json.loads(cli("type", "show", "KV-P4", "--json").stdout)
-    if "revision 2" in res.stdout:
-        assert newest["revision"] == 2
-        assert newest["content_sha256"] != first["content_sha256"]
-        limit = "max_takeoff_kg"
-        assert newest["spec"]["limits"][limit] < first["spec"]["limits"][limit]
-    else:  # only a comment changed: same content, same revision
-        assert newest["revision"] == 1
+    assert newest["revision"] == 2
+    assert newest["content_sha256"] != first["content_sha256"]
+    limit = "max_takeoff_kg"
+    assert newest["spec"]["limits"][limit] == pytest.approx(first["spec"]["limits"][limit]
+                                                            - 15 * 0.45359237)
+    comment = tmp_path / "p4-comment.toml"  # only a comment: same content, same revision
+    comment.write_text(source + "\n# a comment changes the source, not the content\n")
+    assert "unchanged" in cli("type", "import", str(comment)).stdout
 
 
 def test_bad_type_file_writes_nothing(cli, tmp_path):

@@ -68,8 +68,9 @@ def test_checkpoint_signed_and_checked(ready, tmp_path):  # noqa: F811
     assert (r.exit_code, r.stderr) == (2, f"Error: KEYFILE = '{tmp_path / 'key'}': a new file; "
                                           "it exists already and a key is never overwritten\n")
     out = _ok(cli("checkpoint", tmp_path / "cp.json", "--sign", tmp_path / "key"))
-    assert out.splitlines()[0] == (f"Wrote checkpoint {tmp_path / 'cp.json'}: 1 types, "
-                                   "1 vehicles, 0 configurations, signed.")
+    # issue 13 item 21: counts agree with their nouns, and the lines stay short
+    assert out.splitlines()[:2] == [f"Wrote checkpoint {tmp_path / 'cp.json'}:",
+                                    "  1 type, 1 vehicle, 0 configurations, signed."]
     assert (tmp_path / "cp.json").stat().st_mode & 0o777 == 0o600
     cp = json.loads((tmp_path / "cp.json").read_text())
     assert [(v["registration"], v["entries"], v["sheets"]) for v in cp["vehicles"]] == [
