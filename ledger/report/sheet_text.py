@@ -180,7 +180,10 @@ def _limits_and_fixes(page: _Page, view: SheetView) -> None:
 def _closing(page: _Page, view: SheetView) -> None:
     """The verdict, the caution and the hashes a paper copy keeps."""
     page.console.print()
-    verdict = Group(Text(view.verdict_text, style="bold"), Text(view.verdict_detail))
+    parts = [Text(view.verdict_text, style="bold"), Text(view.verdict_detail)]
+    if view.is_draft:  # issue 13 item 6: a draft says so where the sheet closes
+        parts.append(Text(f"DRAFT: {view.draft_notice}", style="bold"))
+    verdict = Group(*parts)
     page.out(Panel(verdict, title="Verdict", title_align="left", box=box.DOUBLE,
                    border_style="green" if view.ok else "red", width=page.width))
     page.out(Panel(Text(view.caution, style="bold"), box=box.HEAVY, border_style="yellow",

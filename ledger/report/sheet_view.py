@@ -75,6 +75,17 @@ class SheetView(DisplayFormat):
         return GROUND_CAUTION if self.is_ground else None
 
     @property
+    def is_draft(self) -> bool:
+        """Not saved: no sheet number, so not for signature (issue 13 item 6)."""
+        sheet = self.doc.get("sheet") or {}
+        return not (sheet.get("saved") or sheet.get("id") is not None)
+
+    @property
+    def draft_notice(self) -> str:
+        return ("This sheet is a draft: it is not saved and has no sheet number, so it is not "
+                "for signature. Prepare it with --save to print a numbered sheet to sign.")
+
+    @property
     def signature_roles(self) -> list[str]:
         third = "Driver" if self.is_ground else "Commander"
         return ["Prepared by", "Checked by", third]
@@ -279,7 +290,7 @@ def _when(at) -> str:
 
 
 def _sheet_state(sheet: dict) -> str:
-    if sheet.get("saved") or sheet.get("id") is not None:
+    if sheet.get("saved") or sheet.get("id") is not None:  # as SheetView.is_draft
         text = f"saved as sheet #{sheet.get('id', '?')}"
     else:
         text = "not saved (draft)"
