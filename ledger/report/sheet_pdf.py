@@ -55,7 +55,8 @@ def _layout(view: SheetView, page_w: float, page_h: float | None) -> Layout:
     lay = Layout(page_w, page_h)
     _title(lay, view)
     _heading(lay, view)
-    for t in (view.items_table(), view.stations_table(), view.fuel_table(),
+    for t in (*view.amendment_tables(), view.items_table(),
+              view.stations_table(), view.fuel_table(),
               view.phases_table(), view.margins_table()):
         _table(lay, t)
     _charts(lay, view)

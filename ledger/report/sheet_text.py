@@ -136,7 +136,8 @@ def render_sheet(doc: dict, console: Console | None = None, width: int = 80) -> 
     view = SheetView(doc)
     page = _Page(console, max(MIN_WIDTH, min(width, console.width)), view)
     page.out(_heading_panel(view, page.width))
-    for table in (view.items_table(), view.stations_table(), view.fuel_table(),
+    for table in (*view.amendment_tables(),
+                  view.items_table(), view.stations_table(), view.fuel_table(),
                   view.phases_table(), view.margins_table()):
         page.table(table)
     for chart in view.charts():

@@ -14,7 +14,7 @@ from datetime import datetime
 
 from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.loadsheet.text import phase_title
-from ledger.report import sheet_charts, sheet_tables
+from ledger.report import sheet_amend, sheet_charts, sheet_tables
 from ledger.report.sheet_charts import ChartData
 from ledger.report.sheet_format import DASH, DisplayFormat, number
 from ledger.report.sheet_tables import TableData
@@ -151,6 +151,10 @@ class SheetView(DisplayFormat):
         return rows
 
     # --- tables and charts (built by sheet_tables and sheet_charts) ------------------------
+    def amendment_tables(self) -> list[TableData]:
+        """What an amended sheet changed from the sheet it amends (none for another)."""
+        return sheet_amend.amendment_tables(self)
+
     def items_table(self) -> TableData:
         return sheet_tables.items_table(self)
 
