@@ -19,8 +19,7 @@ from ledger.report.sheet_text import sheet_text
 from ledger.testing import assert_close
 from ledger.typedata.model import Tolerances
 from tests.loadsheet.common import LB, make_type, plan_of
-from tests.report.common import OVER_ZF_PLAN, OVER_ZF_TYPE, built
-from tests.store.test_sheets import PLAN, TYPE
+from tests.report.common import OVER_ZF_PLAN, OVER_ZF_TYPE, built, saved_sheet_vehicle
 
 AFTER_PLAN = OVER_ZF_PLAN.replace("mass = 100", "mass = 60")  # 40 lb less baggage
 
@@ -67,14 +66,7 @@ def test_differences_on_screen_and_in_print(amended, tmp_path):
 
 
 def test_amend_through_the_command_line_reports_the_differences(cli, tmp_path):
-    type_file = tmp_path / "ts-1.toml"
-    type_file.write_text(TYPE, encoding="utf-8")
-    for args in (("init",), ("type", "import", type_file),
-                 ("vehicle", "add", "TS-101", "--type", "TS-1"),
-                 ("weigh", "TS-101", "--reading", "nose=350 lb", "--reading", "main=1300 lb",
-                  "--by", "tester", "--date", "2026-11-30")):
-        assert cli(*args).exit_code == 0
-    (tmp_path / "ok.toml").write_text(PLAN, encoding="utf-8")
+    saved_sheet_vehicle(cli, tmp_path)
     first = json.loads(cli("sheet", "prepare", tmp_path / "ok.toml", "--save", "--json").stdout)
     r = cli("sheet", "amend", str(first["sheet"]["id"]), "--cargo", "baggage=55", "--json")
     assert r.exit_code == 0, r.stderr

@@ -18,8 +18,7 @@ from ledger.errors import InputError
 from ledger.report.sheet_text import MIN_WIDTH, sheet_text
 from ledger.report.sheet_view import SheetView
 from tests.report import samples
-from tests.report.common import OVER_ZF_PLAN, built
-from tests.store.test_sheets import PLAN, TYPE
+from tests.report.common import OVER_ZF_PLAN, built, saved_sheet_vehicle
 
 DOCS = {"over_zf": lambda: built(OVER_ZF_PLAN, note="n"),
         "helicopter_lateral": samples.helicopter_lateral,
@@ -62,14 +61,7 @@ def test_no_figure_is_split_at_any_width(name):
 
 
 def test_cli_refuses_a_width_under_the_minimum(cli, tmp_path):
-    type_file = tmp_path / "ts-1.toml"
-    type_file.write_text(TYPE, encoding="utf-8")
-    for args in (("init",), ("type", "import", type_file),
-                 ("vehicle", "add", "TS-101", "--type", "TS-1"),
-                 ("weigh", "TS-101", "--reading", "nose=350 lb", "--reading", "main=1300 lb",
-                  "--by", "tester", "--date", "2026-11-30")):
-        assert cli(*args).exit_code == 0
-    (tmp_path / "ok.toml").write_text(PLAN, encoding="utf-8")
+    saved_sheet_vehicle(cli, tmp_path)
     r = cli("sheet", "prepare", tmp_path / "ok.toml", "--width", "59")
     assert r.exit_code == 2
     assert "--width" in r.stderr + r.stdout
