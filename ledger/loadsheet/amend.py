@@ -18,9 +18,13 @@ How a change is measured:
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import Any, cast
 
-__all__ = ["Change", "AmendmentCheck", "compare_plans"]
+from ledger.loadsheet.document import AmendmentChangeDoc, AmendmentDoc, AmendmentPhaseDoc
+
+__all__ = ["Change", "AmendmentCheck", "compare_plans", "plan_changes", "amendment_doc"]
 
 
 @dataclass(frozen=True)
@@ -62,13 +66,17 @@ class AmendmentCheck:
                 and self.person_change <= self.tolerance_persons)
 
     def to_dict(self) -> dict:
-        return {"changes": [{"kind": c.kind, "subject": c.subject, "before_kg": c.before_kg,
-                             "after_kg": c.after_kg, "persons_before": c.persons_before,
-                             "persons_after": c.persons_after} for c in self.changes],
+        return {"changes": [_change_doc(c) for c in self.changes],
                 "mass_change_kg": self.mass_change_kg, "person_change": self.person_change,
                 "tolerance_mass_kg": self.tolerance_mass_kg,
                 "tolerance_persons": self.tolerance_persons,
                 "structural": list(self.structural), "within": self.within}
+
+
+def _change_doc(c: Change) -> AmendmentChangeDoc:
+    return {"kind": c.kind, "subject": c.subject, "before_kg": c.before_kg,
+            "after_kg": c.after_kg, "persons_before": c.persons_before,
+            "persons_after": c.persons_after}
 
 
 def _by(items, key, mass) -> dict[str, list[float]]:
@@ -94,6 +102,19 @@ def compare_plans(original, amended, tolerances) -> AmendmentCheck:
     >>> compare_plans(a, b, Tolerances(last_minute_mass_kg=5.0)).within
     False
     """
+    changes, structural = plan_changes(original, amended)
+    return AmendmentCheck(
+        changes=tuple(changes),
+        mass_change_kg=math.fsum(c.mass_change_kg for c in changes),
+        person_change=sum(c.person_change for c in changes),
+        tolerance_mass_kg=tolerances.last_minute_mass_kg,
+        tolerance_persons=tolerances.last_minute_persons,
+        structural=tuple(structural))
+
+
+def plan_changes(original, amended) -> tuple[list[Change], list[str]]:
+    """What each seat, station, tank and fuel figure holds before and after, and the changes
+    that always need a new sheet (as :func:`compare_plans` measures them)."""
     structural = []
     for attr, label in (("vehicle", "vehicle"), ("configuration", "configuration"),
                         ("category", "envelope category"),
@@ -129,10 +150,27 @@ def compare_plans(original, amended, tolerances) -> AmendmentCheck:
         a, b = getattr(original, attr), getattr(amended, attr)
         if not math.isclose(a, b, rel_tol=1e-12, abs_tol=1e-9):
             changes.append(Change(label, label, a, b))
-    return AmendmentCheck(
-        changes=tuple(changes),
-        mass_change_kg=math.fsum(c.mass_change_kg for c in changes),
-        person_change=sum(c.person_change for c in changes),
-        tolerance_mass_kg=tolerances.last_minute_mass_kg,
-        tolerance_persons=tolerances.last_minute_persons,
-        structural=tuple(structural))
+    return changes, structural
+
+
+def amendment_doc(check: AmendmentCheck, *, of: int, first_sheet: int, before_plan,
+                  after_plan, before: Mapping[str, Any], after: Mapping[str, Any],
+                  ) -> AmendmentDoc:
+    """The document's ``amendment``: the tolerance check against the first sheet of the chain
+    (``check``), and the ``differences`` from the sheet it amends (sheet ``of``, whose plan is
+    ``before_plan`` and document ``before``): the load, fuel and people changed, and each
+    phase's mass and CG before and after (issue 13 item 4)."""
+    changes, _ = plan_changes(before_plan, after_plan)
+    was = {p["name"]: p for p in before.get("phases") or []}
+    phases: list[AmendmentPhaseDoc] = []
+    for p in after.get("phases") or []:
+        old = was.get(p["name"])
+        if old is None:
+            continue
+        phases.append({"name": p["name"], "mass_before_kg": old["mass_kg"],
+                       "mass_after_kg": p["mass_kg"], "cg_before_m": old["cg_m"],
+                       "cg_after_m": p["cg_m"]})
+    doc = cast(AmendmentDoc, {"of": of, "first_sheet": first_sheet, **check.to_dict()})
+    doc["differences"] = {"from_sheet": of, "changes": [_change_doc(c) for c in changes],
+                          "phases": phases}
+    return doc

@@ -53,6 +53,9 @@ __all__ = [
     "AfterDoc",
     "FixDoc",
     "EnvelopePolygon",
+    "AmendmentChangeDoc",
+    "AmendmentPhaseDoc",
+    "AmendmentDifferencesDoc",
     "AmendmentDoc",
 ]
 
@@ -391,18 +394,48 @@ class EnvelopePolygon(TypedDict):
     points: list[list[float]]
 
 
+class AmendmentChangeDoc(TypedDict):
+    """What one seat, station, tank or fuel figure holds before and after an amendment."""
+
+    kind: str                   # "seat", "station", "tank", "taxi fuel", "trip fuel"
+    subject: str
+    before_kg: float
+    after_kg: float
+    persons_before: int
+    persons_after: int
+
+
+class AmendmentPhaseDoc(TypedDict):
+    """One phase's mass and CG on the amended sheet and on the sheet it amends."""
+
+    name: str
+    mass_before_kg: float
+    mass_after_kg: float
+    cg_before_m: Vector
+    cg_after_m: Vector
+
+
+class AmendmentDifferencesDoc(TypedDict):
+    """``amendment.differences``: what changed from the sheet amended (issue 13 item 4)."""
+
+    from_sheet: int
+    changes: list[AmendmentChangeDoc]
+    phases: list[AmendmentPhaseDoc]
+
+
 class AmendmentDoc(TypedDict):
-    """``amendment`` of an amended sheet (added by the store; see :mod:`.amend`)."""
+    """``amendment`` of an amended sheet (added by the services; see :mod:`.amend`)."""
 
     of: int
     first_sheet: int
-    changes: list[dict[str, object]]
+    changes: list[AmendmentChangeDoc]
     mass_change_kg: float
     person_change: int
     tolerance_mass_kg: float
     tolerance_persons: int
     structural: list[str]
     within: bool
+    differences: NotRequired[AmendmentDifferencesDoc]  # sheets amended from this version on
 
 
 class SheetDocument(TypedDict):

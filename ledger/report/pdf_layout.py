@@ -129,16 +129,14 @@ class Layout:
         self.rule(self.y, lw=0.8, color=INK)
         self.y += 0.06
 
-    def table(self, t: TableData, size: float = 8.0) -> None:
-        pad = 0.2
-        ncol = len(t.headers)
+    def _fit(self, t: TableData, size: float, pad: float) -> tuple[float, list[float]]:
+        """The font size (shrunk to 6 pt at most) and column widths that fit the page."""
         head_lines = [h.split("\n") for h in t.headers]
-        nhead = max(len(h) for h in head_lines)
 
         def widths(sz):
             ws = []
-            for i in range(ncol):
-                cells = [self.m.width(x, sz, "bold") for x in head_lines[i]]
+            for i, head in enumerate(head_lines):
+                cells = [self.m.width(x, sz, "bold") for x in head]
                 cells += [self.m.width(r[i], sz, "bold" if j in t.bold_rows else "normal")
                           for j, r in enumerate(t.rows)]
                 ws.append(max(cells + [0.2]) + pad)
@@ -148,6 +146,29 @@ class Layout:
         while sum(ws) > self.cw and size > 6.0:
             size -= 0.5
             ws = widths(size)
+        return size, ws
+
+    def table_height(self, t: TableData, size: float = 8.0) -> float:
+        """The height :meth:`table` takes for ``t`` on one page, notes included."""
+        size, _ = self._fit(t, size, 0.2)
+        nhead = max(len(h.split("\n")) for h in t.headers)
+        return (self.lh(size) * nhead + 0.06 + (self.lh(size) + 0.02) * len(t.rows)
+                + 0.02 * len(t.bold_rows) + 0.05 + self._notes_height(t))
+
+    def _notes_height(self, t: TableData) -> float:
+        return sum(self.lh(6.8) * len(self.m.wrap(n, 6.8, self.cw)) for n in t.notes)
+
+    @property
+    def page_room(self) -> float:
+        """The height of a whole page's text area."""
+        return self.bottom - MARGIN
+
+    def table(self, t: TableData, size: float = 8.0) -> None:
+        pad = 0.2
+        ncol = len(t.headers)
+        head_lines = [h.split("\n") for h in t.headers]
+        nhead = max(len(h) for h in head_lines)
+        size, ws = self._fit(t, size, pad)
         # Spread the spare width: a third to the label column, the rest evenly.
         spare = max(0.0, self.cw - sum(ws))
         ws[0] += spare / 3
@@ -175,7 +196,7 @@ class Layout:
 
         header()
         # the notes stay on the page of the last row
-        notes_h = sum(self.lh(6.8) * len(self.m.wrap(n, 6.8, self.cw)) for n in t.notes) + 0.07
+        notes_h = self._notes_height(t) + 0.07
         for j, r in enumerate(t.rows):
             extra = notes_h if j == len(t.rows) - 1 else 0.0
             if self.y + row_h + extra > self.bottom:
@@ -201,13 +222,18 @@ class Layout:
         else:
             self.text(x + pad / 2 if x > self.left else x, y, s, size, weight, color)
 
+    def _box_lines(self, lines: list[tuple[str, float, str, str]], pad: float) -> list:
+        return [(line, size, weight, color) for s, size, weight, color in lines
+                for line in self.m.wrap(s, size, self.cw - 2 * pad, weight)]
+
+    def box_height(self, lines: list[tuple[str, float, str, str]], pad: float = 0.1) -> float:
+        """The height :meth:`box` takes, the gap after it included."""
+        return sum(self.lh(sz) for _, sz, _, _ in self._box_lines(lines, pad)) + 2 * pad + 0.08
+
     def box(self, lines: list[tuple[str, float, str, str]], edge: str, fill: str | None,
             lw: float = 1.2, pad: float = 0.1) -> None:
         """A framed block of (text, size, weight, colour) lines, wrapped to the box."""
-        wrapped = []
-        for s, size, weight, color in lines:
-            for line in self.m.wrap(s, size, self.cw - 2 * pad, weight):
-                wrapped.append((line, size, weight, color))
+        wrapped = self._box_lines(lines, pad)
         h = sum(self.lh(sz) for _, sz, _, _ in wrapped) + 2 * pad
         self.need(h)
         self.op("rect", x=self.left, y=self.y, w=self.cw, h=h, edge=edge, fill=fill, lw=lw)
@@ -254,6 +280,89 @@ def figure_line(fig, xs, ys, lw, color):
     return Line2D(xs, ys, transform=fig.transFigure, linewidth=lw, color=color)
 
 
+LABEL_SIZE = 8.0  # pt, the phase letters on a chart
+
+
+@dataclass(frozen=True)
+class PlacedLabel:
+    """A chart label: its text, the point it names and its box's lower-left corner as an
+    offset from that point (points, 1/72 in)."""
+
+    text: str
+    x: float
+    y: float
+    dx: float
+    dy: float
+
+
+def _box_of(lab: PlacedLabel, size: float) -> tuple[float, float, float, float]:
+    w, h = 0.68 * size * len(lab.text), 0.75 * size
+    return (lab.x + lab.dx, lab.y + lab.dy, lab.x + lab.dx + w, lab.y + lab.dy + h)
+
+
+def _overlap(a, b) -> float:
+    w = min(a[2], b[2]) - max(a[0], b[0])
+    h = min(a[3], b[3]) - max(a[1], b[1])
+    return w * h if w > 0 and h > 0 else 0.0
+
+
+def place_labels(points: list[tuple[float, float, str]], size: float = LABEL_SIZE,
+                 marker: float = 3.0) -> list[PlacedLabel]:
+    """Labels for points given in display points, none over another label or a marker.
+
+    Points closer than a marker's radius (ramp and take-off with no taxi fuel) share one
+    label ("R,T"); every other label takes the first of eight places around its point that
+    covers no marker and no label already placed (else the least covered one).
+
+    Examples
+    --------
+    >>> [(p.text, p.dx > 0) for p in place_labels([(0, 0, "R"), (0.5, 0.5, "T"),
+    ...                                             (100, 0, "L")])]
+    [('R,T', True), ('L', True)]
+    """
+    groups: list[tuple[float, float, list[str]]] = []
+    for x, y, mark in points:
+        for gx, gy, marks in groups:
+            if abs(gx - x) <= marker and abs(gy - y) <= marker:
+                marks.append(mark)
+                break
+        else:
+            groups.append((x, y, [mark]))
+    dots = [(x - marker, y - marker, x + marker, y + marker) for x, y, _ in points]
+    placed: list[PlacedLabel] = []
+    for x, y, marks in groups:
+        text = ",".join(dict.fromkeys(marks))
+        w, h = 0.68 * size * len(text), 0.75 * size
+        gap = marker + 1.5
+        tries = [(gap, 1.0), (-gap - w, 1.0), (gap, -1.0 - h), (-gap - w, -1.0 - h),
+                 (-w / 2, gap), (-w / 2, -gap - h), (gap + 4, -h / 2), (-gap - 4 - w, -h / 2)]
+        boxes = dots + [_box_of(p, size) for p in placed]
+        costs = [sum(_overlap(_box_of(PlacedLabel(text, x, y, *d), size), b) for b in boxes)
+                 for d in tries]
+        best = tries[costs.index(min(costs))]  # the first of equal costs: the usual place
+        placed.append(PlacedLabel(text, x, y, *best))
+    return placed
+
+
+def _label_points(ax, c: ChartData, outside: set[str]) -> None:
+    """Phase letters placed in display space, after the axes have their final limits."""
+    if not c.points:
+        return
+    ax.autoscale_view()
+    to_pt = 72.0 / ax.figure.dpi
+    shown = []
+    for x, y, mark in c.points:
+        px, py = ax.transData.transform((x, y))
+        shown.append((px * to_pt, py * to_pt, mark))
+    data_at = {(round(px, 6), round(py, 6)): (x, y)
+               for (px, py, _), (x, y, _) in zip(shown, c.points)}
+    for lab in place_labels(shown):
+        col = BAD if any(m in outside for m in lab.text.split(",")) else INK
+        ax.annotate(lab.text, data_at[(round(lab.x, 6), round(lab.y, 6))],
+                    xytext=(lab.dx, lab.dy), textcoords="offset points", fontsize=LABEL_SIZE,
+                    fontweight="bold", color=col, zorder=7, ha="left", va="baseline")
+
+
 def draw_chart(ax, c: ChartData) -> None:
     if c.polygon:
         xs = [p[0] for p in c.polygon] + [c.polygon[0][0]]
@@ -264,22 +373,10 @@ def draw_chart(ax, c: ChartData) -> None:
         ax.plot([p[0] for p in c.path], [p[1] for p in c.path], color="#6b6b6b",
                 linewidth=1.0, linestyle="--", marker=".", markersize=3, zorder=3,
                 label="burn path")
-    outside = {line.split(" ", 1)[0] for line in c.legend if line.endswith("OUTSIDE")}
-    allx = [p[0] for p in c.polygon] + [p[0] for p in c.points]
-    ally = [p[1] for p in c.polygon] + [p[1] for p in c.points]
-    sx = (max(allx) - min(allx)) or 1.0
-    sy = (max(ally) - min(ally)) or 1.0
-    # Labels of points that nearly coincide (ramp and take-off) go to different sides.
-    offsets = [(5, 3), (-11, 3), (5, -10), (-11, -10)]
-    placed: list[tuple[float, float]] = []
+    outside = {line.split(" ", 1)[0] for line in c.legend if "OUTSIDE" in line}
     for x, y, mark in c.points:
-        col = BAD if mark in outside else INK
-        near = sum(1 for px, py in placed if abs(px - x) / sx < 0.04 and abs(py - y) / sy < 0.04)
-        placed.append((x, y))
-        ax.plot([x], [y], marker="o", markersize=4.5, color=col, zorder=5, linestyle="none")
-        ax.annotate(mark, (x, y), xytext=offsets[near % len(offsets)],
-                    textcoords="offset points", fontsize=8, fontweight="bold", color=col,
-                    zorder=7)
+        ax.plot([x], [y], marker="o", markersize=4.5, color=BAD if mark in outside else INK,
+                zorder=5, linestyle="none")
     for k, (m, name) in enumerate(c.mass_lines):  # the maximum masses (issue 13 item 1)
         ax.axhline(m, color="#7a4b00", linewidth=0.9, linestyle=(0, (4, 2)), zorder=2.5,
                    label="maximum mass" if k == 0 else None)
@@ -295,6 +392,7 @@ def draw_chart(ax, c: ChartData) -> None:
     ax.grid(True, color="#cccccc", linewidth=0.4, zorder=0)
     ax.set_axisbelow(True)
     ax.margins(0.08)
+    _label_points(ax, c, outside)  # last: the axes have their final limits
     handles, labels = ax.get_legend_handles_labels()
     if handles:
         ax.legend(fontsize=6.5, loc="best", frameon=True, framealpha=0.85)

@@ -45,6 +45,7 @@ from ledger.report.sheet_view import SheetView
 
 __all__ = ["PAPER_SIZES", "write_pdf", "write_svg"]
 
+DRAFT_MARK = "DRAFT"
 PAPER_SIZES = {"A4": (8.27, 11.69), "Letter": (8.5, 11.0)}
 """Portrait page sizes in inches."""
 
@@ -54,7 +55,8 @@ def _layout(view: SheetView, page_w: float, page_h: float | None) -> Layout:
     lay = Layout(page_w, page_h)
     _title(lay, view)
     _heading(lay, view)
-    for t in (view.items_table(), view.stations_table(), view.fuel_table(),
+    for t in (*view.amendment_tables(), view.items_table(),
+              view.stations_table(), view.fuel_table(),
               view.phases_table(), view.margins_table()):
         _table(lay, t)
     _charts(lay, view)
@@ -64,8 +66,12 @@ def _layout(view: SheetView, page_w: float, page_h: float | None) -> Layout:
     _limits_and_fixes(lay, view)
     lay.y += 0.1
     colour = OK if view.ok else BAD
-    lay.box([(view.verdict_text, 13.0, "bold", colour), (view.verdict_detail, 8.5, "normal",
-                                                          INK)], colour, None, lw=2.0)
+    verdict = [(view.verdict_text, 13.0, "bold", colour),
+               (view.verdict_detail, 8.5, "normal", INK)]
+    # The verdict and the signatures (or the draft notice) share a page: a signature is
+    # never alone on the last page, away from what it signs (issue 13 item 6).
+    lay.need(lay.box_height(verdict) + _signatures_height(lay, view))
+    lay.box(verdict, colour, None, lw=2.0)
     _signatures(lay, view)
     return lay
 
@@ -74,8 +80,11 @@ def _title(lay: Layout, view: SheetView) -> None:
     """Title line with the verdict on the right, then the caution in its box."""
     lay.text(lay.left, lay.y + 0.22, "Loading sheet", 17, "bold")
     reg = (view.doc.get("vehicle") or {}).get("registration") or "?"
-    lay.text(lay.left + lay.m.width("Loading sheet", 17, "bold") + 0.15, lay.y + 0.22, reg,
-             17, "normal", GREY)
+    reg_x = lay.left + lay.m.width("Loading sheet", 17, "bold") + 0.15
+    lay.text(reg_x, lay.y + 0.22, reg, 17, "normal", GREY)
+    if view.is_draft:
+        lay.text(reg_x + lay.m.width(reg, 17) + 0.2, lay.y + 0.22, DRAFT_MARK, 17, "bold",
+                 BAD)
     colour = OK if view.ok else BAD
     vw = lay.m.width(view.verdict_text, 12, "bold") + 0.3
     lay.op("rect", x=lay.right - vw, y=lay.y, w=vw, h=0.32, edge=colour, fill=None, lw=2.0)
@@ -100,9 +109,14 @@ def _heading(lay: Layout, view: SheetView) -> None:
 
 
 def _table(lay: Layout, t: TableData | None) -> None:
-    if t is not None:
-        lay.section(t.title, keep=lay.lh(8) * min(len(t.rows) + 2, 5))
-        lay.table(t)
+    """A titled table, on one page when it fits on one (issue 13 item 6); a longer one
+    splits between rows, its header repeated."""
+    if t is None:
+        return
+    whole = lay.table_height(t) + 0.1
+    keep = whole if whole + 0.4 <= lay.page_room else lay.lh(8) * min(len(t.rows) + 2, 5)
+    lay.section(t.title, keep=keep)
+    lay.table(t)
 
 
 def _chart_notes(c: ChartData, view: SheetView) -> list[str]:
@@ -166,8 +180,24 @@ def _limits_and_fixes(lay: Layout, view: SheetView) -> None:
                       "sheet.", 7.0, color=GREY, style="italic")
 
 
+def _draft_lines(view: SheetView) -> list[tuple[str, float, str, str]]:
+    return [(f"{DRAFT_MARK}: not saved, no sheet number", 12.0, "bold", BAD),
+            (view.draft_notice, 8.5, "normal", INK)]
+
+
+def _signatures_height(lay: Layout, view: SheetView) -> float:
+    """The height of the signature block (or of the draft notice that replaces it)."""
+    if view.is_draft:
+        return lay.box_height(_draft_lines(view))
+    return 0.72 + 0.55 * len(view.signature_roles)
+
+
 def _signatures(lay: Layout, view: SheetView) -> None:
-    """Signature lines, kept together."""
+    """Signature lines, kept together; a draft gets a DRAFT notice instead, since a sheet
+    without a number cannot be traced from its signed paper copy."""
+    if view.is_draft:
+        lay.box(_draft_lines(view), BAD, None, lw=1.6)
+        return
     roles = view.signature_roles
     block = 0.4 + 0.55 * len(roles)
     lay.need(block)

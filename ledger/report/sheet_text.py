@@ -28,12 +28,14 @@ from __future__ import annotations
 import io
 
 from rich import box
+from rich.cells import cell_len
 from rich.console import Console, Group
 from rich.panel import Panel
 from rich.rule import Rule
 from rich.table import Table
 from rich.text import Text
 
+from ledger.errors import InputError
 from ledger.report.safe_text import clean
 from ledger.report.sheet_charts import ChartData, mass_lines_legend
 from ledger.report.sheet_format import DASH
@@ -41,20 +43,60 @@ from ledger.report.sheet_tables import TableData
 from ledger.report.sheet_view import SheetView
 from ledger.report.textchart import LEVEL, PATH, envelope_chart
 
-__all__ = ["DASH", "ChartData", "SheetView", "TableData", "check_lines", "render_sheet",
-           "sheet_text"]
+__all__ = ["DASH", "MIN_WIDTH", "ChartData", "SheetView", "TableData", "check_lines",
+           "render_sheet", "sheet_text"]
 
 EXIT_MARK = "!"
 
 
 # --- rich rendering -------------------------------------------------------------------------
 
+MIN_WIDTH = 60
+"""The narrowest sheet: every table's first column and its widest figure fit side by side."""
+_GAP = 3  # columns between two table columns: padding, divider, padding
+
+
+def _min_width(t: TableData, i: int) -> int:
+    """The narrowest column ``i`` can be: a figure is never split across lines (issue 13
+    item 3), and neither is a word of a label or header."""
+    cells = [line for line in t.headers[i].split("\n")]
+    cells += [r[i] if i in t.numeric or i == 0 else max(r[i].split() or [""], key=cell_len)
+              for r in t.rows]
+    return max([cell_len(c) for c in cells] + [1])
+
+
+def _parts(t: TableData, width: int) -> list[TableData]:
+    """``t`` as it fits in ``width`` columns: whole, or its columns in parts side by side no
+    longer but one after the other, each part starting with the first (label) column."""
+    mins = [_min_width(t, i) for i in range(len(t.headers))]
+    groups: list[list[int]] = [[0]]
+    used = mins[0]
+    for i in range(1, len(t.headers)):
+        if used + _GAP + mins[i] > width and len(groups[-1]) > 1:
+            groups.append([0])
+            used = mins[0]
+        groups[-1].append(i)
+        used += _GAP + mins[i]
+    if len(groups) == 1:
+        return [t]
+    out = []
+    for k, cols in enumerate(groups):
+        last = k == len(groups) - 1
+        out.append(TableData(
+            t.title if k == 0 else f"{t.title} (continued)", [t.headers[i] for i in cols],
+            [[r[i] for i in cols] for r in t.rows],
+            {j for j, i in enumerate(cols) if i in t.numeric},
+            t.notes if last else [], t.bold_rows))
+    return out
+
+
 def _rich_table(t: TableData) -> Table:
     table = Table(box=box.SIMPLE_HEAD, show_edge=False, pad_edge=False, padding=(0, 1),
                   header_style="bold", expand=False)
     for i, h in enumerate(t.headers):
+        # A figure is never folded (issue 13 item 3): _parts made the room for it.
         table.add_column(Text(h), justify="right" if i in t.numeric else "left",
-                         overflow="fold", no_wrap=(i == 0))
+                         overflow="fold", no_wrap=(i == 0 or i in t.numeric))
     for i, r in enumerate(t.rows):
         # Text, not str: a label typed by a user ("[/]") must not be read as rich markup.
         table.add_row(*(Text(c) for c in r), style="bold" if i in t.bold_rows else None,
@@ -79,15 +121,25 @@ def render_sheet(doc: dict, console: Console | None = None, width: int = 80) -> 
         Where to print; a new console ``width`` columns wide if not given.
     width : int
         Layout width in columns; the sheet never prints wider than this (or than the
-        console, whichever is narrower). At least 60.
+        console, whichever is narrower). At least :data:`MIN_WIDTH` (60): a narrower width
+        is refused. A table too wide for it goes on in a second part below (its first
+        column repeated); a figure is never split across lines.
+
+    Raises
+    ------
+    InputError
+        ``width`` is under :data:`MIN_WIDTH`.
     """
+    if width < MIN_WIDTH:
+        raise InputError("--width", width, f"at least {MIN_WIDTH} columns")
     doc = clean(doc)  # stored text shown as text (issue 13 item 10)
     if console is None:
         console = Console(width=width, highlight=False)
     view = SheetView(doc)
-    page = _Page(console, max(60, min(width, console.width)), view)
+    page = _Page(console, max(MIN_WIDTH, min(width, console.width)), view)
     page.out(_heading_panel(view, page.width))
-    for table in (view.items_table(), view.stations_table(), view.fuel_table(),
+    for table in (*view.amendment_tables(),
+                  view.items_table(), view.stations_table(), view.fuel_table(),
                   view.phases_table(), view.margins_table()):
         page.table(table)
     for chart in view.charts():
@@ -118,10 +170,11 @@ class _Page:
         """A titled table and its notes (nothing for a table the sheet does not have)."""
         if t is None:
             return
-        self.section(t.title)
-        self.out(_rich_table(t))
-        for n in t.notes:
-            self.out(Text(n, style="dim"), overflow="fold")
+        for part in _parts(t, self.width):
+            self.section(part.title)
+            self.out(_rich_table(part))
+            for n in part.notes:
+                self.out(Text(n, style="dim"), overflow="fold")
 
 
 def _heading_panel(view: SheetView, width: int) -> Panel:
@@ -182,7 +235,10 @@ def _limits_and_fixes(page: _Page, view: SheetView) -> None:
 def _closing(page: _Page, view: SheetView) -> None:
     """The verdict, the caution and the hashes a paper copy keeps."""
     page.console.print()
-    verdict = Group(Text(view.verdict_text, style="bold"), Text(view.verdict_detail))
+    parts = [Text(view.verdict_text, style="bold"), Text(view.verdict_detail)]
+    if view.is_draft:  # issue 13 item 6: a draft says so where the sheet closes
+        parts.append(Text(f"DRAFT: {view.draft_notice}", style="bold"))
+    verdict = Group(*parts)
     page.out(Panel(verdict, title="Verdict", title_align="left", box=box.DOUBLE,
                    border_style="green" if view.ok else "red", width=page.width))
     page.out(Panel(Text(view.caution, style="bold"), box=box.HEAVY, border_style="yellow",

@@ -14,7 +14,7 @@ from datetime import datetime
 
 from ledger.caution import CAUTION, GROUND_CAUTION
 from ledger.loadsheet.text import phase_title
-from ledger.report import sheet_charts, sheet_tables
+from ledger.report import sheet_amend, sheet_charts, sheet_tables
 from ledger.report.sheet_charts import ChartData
 from ledger.report.sheet_format import DASH, DisplayFormat, number
 from ledger.report.sheet_tables import TableData
@@ -73,6 +73,17 @@ class SheetView(DisplayFormat):
         if self.doc.get("ground_caution"):
             return self.doc["ground_caution"]
         return GROUND_CAUTION if self.is_ground else None
+
+    @property
+    def is_draft(self) -> bool:
+        """Not saved: no sheet number, so not for signature (issue 13 item 6)."""
+        sheet = self.doc.get("sheet") or {}
+        return not (sheet.get("saved") or sheet.get("id") is not None)
+
+    @property
+    def draft_notice(self) -> str:
+        return ("This sheet is a draft: it is not saved and has no sheet number, so it is not "
+                "for signature. Prepare it with --save to print a numbered sheet to sign.")
 
     @property
     def signature_roles(self) -> list[str]:
@@ -140,6 +151,10 @@ class SheetView(DisplayFormat):
         return rows
 
     # --- tables and charts (built by sheet_tables and sheet_charts) ------------------------
+    def amendment_tables(self) -> list[TableData]:
+        """What an amended sheet changed from the sheet it amends (none for another)."""
+        return sheet_amend.amendment_tables(self)
+
     def items_table(self) -> TableData:
         return sheet_tables.items_table(self)
 
@@ -279,7 +294,7 @@ def _when(at) -> str:
 
 
 def _sheet_state(sheet: dict) -> str:
-    if sheet.get("saved") or sheet.get("id") is not None:
+    if sheet.get("saved") or sheet.get("id") is not None:  # as SheetView.is_draft
         text = f"saved as sheet #{sheet.get('id', '?')}"
     else:
         text = "not saved (draft)"

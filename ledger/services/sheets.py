@@ -30,6 +30,7 @@ from sqlalchemy.orm import Session
 
 from ledger.errors import ChainError, ConflictError
 from ledger.loadsheet import AmendmentCheck, build_sheet, compare_plans
+from ledger.loadsheet.amend import amendment_doc
 from ledger.loadsheet.text import mass_text
 from ledger.services.database import unit_of_work
 from ledger.store.catalog import get_vehicle
@@ -437,8 +438,11 @@ def amend_sheet(session: Session, sheet_id: int, *, options: QuickOptions | None
     if not check.within:
         raise _beyond_tolerance(root, ctx.vtype, check)
     prepared_at = prepared_at or dt.datetime.now(dt.UTC)
-    doc = {**_build(ctx, plan, preparer=preparer, prepared_at=prepared_at),
-           "amendment": {"of": original.id, "first_sheet": root.id, **check.to_dict()}}
+    built = _build(ctx, plan, preparer=preparer, prepared_at=prepared_at)
+    doc = {**built, "amendment": amendment_doc(
+        check, of=original.id, first_sheet=root.id,
+        before_plan=Plan.from_dict(original.plan["plan"]), after_plan=plan,
+        before=original.document, after=built)}
     prepared = PreparedSheet(doc, plan, dict(raw), ctx.vehicle.registration, ctx.vehicle.id,
                              ctx.revision_id, ctx.empty.entry_id, preparer, prepared_at)
     return save_prepared(session, prepared, amends_id=original.id), check

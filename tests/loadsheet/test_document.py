@@ -103,3 +103,29 @@ def test_the_optional_keys_are_the_ones_the_notes_name():
     fix = _typed_dicts(hints["fixes"])[0]
     assert fix.__optional_keys__ == {"tanks_kg", "distance_m", "steps"}
     assert isinstance(hints["axles"], types.UnionType)
+
+
+def test_an_amended_sheet_declares_its_amendment_and_differences():
+    # Issue 13 item 4: amendment.differences (the changes from the sheet amended and each
+    # phase before and after) is typed key for key. A small invented type, not the demo's.
+    from ledger.loadsheet.amend import amendment_doc, compare_plans
+    from ledger.loadsheet.document import AmendmentDoc
+    from ledger.typedata.model import Tolerances
+    from tests.loadsheet.common import empty_lb_in, envelope, lb_in_type, make_type, plan_of
+    from tests.loadsheet.common import station as st
+
+    vt = make_type(lb_in_type(name="TEST-AM", stations=st("hold", "cargo", 100, max_mass=500),
+                              envelopes=envelope([(70, 500), (90, 500), (90, 9000),
+                                                  (70, 9000)])))
+    before_plan = plan_of(vt, '[[cargo]]\nstation = "hold"\nmass = 100\n')
+    after_plan = plan_of(vt, '[[cargo]]\nstation = "hold"\nmass = 90\n')
+    empty = empty_lb_in(1000, 80.0)
+    before = build_sheet(vt, empty, before_plan, type_revision=1)
+    after = build_sheet(vt, empty, after_plan, type_revision=1)
+    check = compare_plans(before_plan, after_plan, Tolerances(last_minute_mass_kg=10.0))
+    after["amendment"] = amendment_doc(check, of=1, first_sheet=1, before_plan=before_plan,
+                                       after_plan=after_plan, before=before, after=after)
+    assert _check(after, SheetDocument, "doc") > 10
+    assert len(after["amendment"]["differences"]["phases"]) == 4
+    assert AmendmentDoc.__optional_keys__ == {"differences"}
+    assert json.loads(json.dumps(after)) == after

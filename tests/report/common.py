@@ -5,6 +5,7 @@ from __future__ import annotations
 
 from ledger.testing import envelope, lb_in_type, station, tank
 from tests.loadsheet.common import empty_lb_in, make_type, sheet
+from tests.store.test_sheets import PLAN, TYPE
 
 #: A type in lb and in: MZFM 1,500 lb under an envelope whose top is 2,600 lb, so a zero-fuel
 #: mass can be over its limit with the CG well inside the polygon.
@@ -43,3 +44,15 @@ trip = 20
 tanks = { main = 40 }
 """
 """Zero-fuel 1,250 + 200 + 100 = 1,550 lb: 50 lb over the 1,500 lb MZFM (CG inside)."""
+
+
+def saved_sheet_vehicle(cli, tmp_path) -> None:
+    """A ledger with TS-101 weighed (tests/store/test_sheets.py) and its plan as ok.toml."""
+    type_file = tmp_path / "ts-1.toml"
+    type_file.write_text(TYPE, encoding="utf-8")
+    for args in (("init",), ("type", "import", type_file),
+                 ("vehicle", "add", "TS-101", "--type", "TS-1"),
+                 ("weigh", "TS-101", "--reading", "nose=350 lb", "--reading", "main=1300 lb",
+                  "--by", "tester", "--date", "2026-11-30")):
+        assert cli(*args).exit_code == 0
+    (tmp_path / "ok.toml").write_text(PLAN, encoding="utf-8")

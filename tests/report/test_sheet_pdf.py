@@ -45,6 +45,7 @@ def svg_text(path) -> str:
 def out_of_limits(tmp_path_factory):
     d = tmp_path_factory.mktemp("sheet")
     doc = samples.airplane_out_of_limits()
+    doc["sheet"] = {"id": 7, "amends": None, "saved": True}  # saved: signature lines
     return doc, write_pdf(doc, d / "oo.pdf"), write_svg(doc, d / "oo.svg")
 
 
@@ -52,6 +53,7 @@ def out_of_limits(tmp_path_factory):
 def ground(tmp_path_factory):
     d = tmp_path_factory.mktemp("ground")
     doc = samples.ground_vehicle()
+    doc["sheet"] = {"id": 8, "amends": None, "saved": True}  # saved: signature lines
     return doc, write_pdf(doc, d / "g.pdf", paper="Letter"), write_svg(doc, d / "g.svg")
 
 
