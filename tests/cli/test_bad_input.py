@@ -457,6 +457,27 @@ CASES = [
      "Error: {tmp}/two-pilots.toml: person[2].seat = 'pilot': a free seat: 'pilot' takes 1 "
      "person and person[1] is already there. Two people cannot share one seat; put one in "
      "another seat", 2),
+    # issue 13 item 15: late paperwork is accepted, but not a late weighing (it would drop the
+    # ELT installed on 2025-01-11) nor a change dated before the weighing (already in it)
+    (["weigh", "KVA-101", *P4_READINGS, "--date", WEIGHED, *R],
+     "Error: --date = '2025-01-10': a date on or after that of entry 2 (2025-01-11): a "
+     "weighing sets the empty state to what was measured, so it is not dated before changes "
+     "already recorded", 2),
+    (["install", "KVA-101", "radio", "--mass", "1 lb", "--arm", "100 in", "--date",
+      "2025-01-09", *R],
+     "Error: --date = '2025-01-09': a date on or after that of the weighing the empty state "
+     "starts from, entry 1 (2025-01-10): that weighing already measured the work done before "
+     "it", 2),
+    # issue 13 item 17: a pitched weighing needs its readings, its angle and the points' z
+    (["weigh", "KVA-101", *P4_READINGS, "--pitch", "8 deg", *R],
+     "Error: --pitched-reading = (missing): required with a pitched weighing: "
+     "--pitched-reading POINT=MASS for each weighing point, --pitch ANGLE (nose-up) and "
+     "--points-z LENGTH (the vertical arm of the weighing points)", 2),
+    (["weigh", "KVA-101", *P4_READINGS, "--pitched-reading", "nose=470 lb",
+      "--pitched-reading", "left main=576 lb", "--pitched-reading", "right main=582.5 lb",
+      "--pitch", "1 deg", "--points-z", "10 in", *R],
+     "Error: --pitch = 1: a pitch of 2° to 60°. Pitch the vehicle further; a small angle "
+     "gives a CG shift lost in the scale resolution", 2),
 ]
 
 
