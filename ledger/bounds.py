@@ -31,6 +31,8 @@ from typing import Any
 from ledger.errors import InputError
 
 __all__ = [
+    "item_field",
+    "counted_from_one",
     "ID_MAX",
     "MAX_DEPTH",
     "MAX_NUMBER",
@@ -133,6 +135,41 @@ def check_text(field: str, value: str, max_len: int | None = None, *,
     return value
 
 
+def item_field(base: str, index: int) -> str:
+    """The field of element ``index`` (0-based, as Python counts) of the list ``base``, as every
+    message shows it: counted from 1, the way people count (issue 13 item 9).
+
+    Examples
+    --------
+    >>> item_field("person", 0)
+    'person[1]'
+    """
+    return f"{base}[{index + 1}]"
+
+
+def counted_from_one(exc: InputError, base: str) -> InputError:
+    """``exc`` (raised by a core function, which counts list elements from 0 as Python does)
+    with every ``base[N]`` in its field and its text renumbered by :func:`item_field`.
+
+    Examples
+    --------
+    >>> str(counted_from_one(InputError("p[0]", 1, "not p[2]"), "p"))
+    'p[1] = 1: not p[3]'
+    """
+    import re
+
+    pattern = re.compile(re.escape(base) + r"\[(\d+)\]")
+
+    def renumber(text: str) -> str:
+        return pattern.sub(lambda m: item_field(base, int(m.group(1))), text)
+
+    exc.field, exc.allowed = renumber(exc.field), renumber(exc.allowed)
+    if exc.hint:
+        exc.hint = renumber(exc.hint)
+    exc.args = (exc._build(),)
+    return exc
+
+
 def _path_of(where: Any, root: str) -> str:
     """``entries[3].detail.note`` from nested (parent, key) pairs; ``root`` names the top."""
     keys = []
@@ -142,7 +179,8 @@ def _path_of(where: Any, root: str) -> str:
     keys.pop()  # the document's own place in the list the walk starts from
     path = root
     for key in reversed(keys):
-        path = f"{path}[{key}]" if isinstance(key, int) else f"{path}.{key}" if path else str(key)
+        path = item_field(path, key) if isinstance(key, int) else \
+            f"{path}.{key}" if path else str(key)
     return path or "document"
 
 
@@ -166,7 +204,7 @@ def check_document(data: Any, *, source: str | None = None, root: str = "") -> A
     >>> check_document({"cargo": [{"mass": 1e300}]}, source="plan.toml")
     Traceback (most recent call last):
     ...
-    ledger.errors.InputError: plan.toml: cargo[0].mass = 1e+300: a number from -1e+15 to 1e+15
+    ledger.errors.InputError: plan.toml: cargo[1].mass = 1e+300: a number from -1e+15 to 1e+15
     """
     # Containers wait on a stack with their depth and where they are, (parent's where, key),
     # turned into a path only for an error. The loop tests each value inline (in_range, written

@@ -55,7 +55,7 @@ def _nested(levels: int) -> dict:
 def test_nesting_is_bounded_at_64_levels():
     assert bounds.check_document(_nested(64)) == _nested(64)
     assert _message(lambda: bounds.check_document(_nested(65), source="f.json")) == (
-        "f.json: x" + "[0]" * 13 + "… = (nested 65 levels deep): at most 64 levels of nesting")
+        "f.json: x" + "[1]" * 13 + "… = (nested 65 levels deep): at most 64 levels of nesting")
     # Deeper than the JSON and TOML parsers follow: one line, not a RecursionError.
     deep = "[" * 100_000 + "]" * 100_000
     assert _message(lambda: bounds.load_json(deep, source="f.json")) == (
@@ -74,7 +74,7 @@ def test_numbers_in_a_document_are_at_most_1e15(value, ok):
     if ok:
         assert bounds.check_document(doc) is doc
     else:
-        assert _message(lambda: bounds.check_document(doc)).startswith("a[0] = ")
+        assert _message(lambda: bounds.check_document(doc)).startswith("a[1] = ")
 
 
 def test_nan_and_infinity_are_left_to_the_field():
@@ -94,7 +94,7 @@ def test_nul_in_texts_and_keys():
     assert _message(lambda: bounds.load_json('{"a": {"b": "x\\u0000"}}', source="f")) == (
         "f: a.b = 'x\\x00': text without NUL characters")
     assert _message(lambda: bounds.load_json('{"a": [{"k\\u0000": 1}]}', source="f")) == (
-        "f: a key in a[0] = 'k\\x00': a key without NUL characters")
+        "f: a key in a[1] = 'k\\x00': a key without NUL characters")
     assert _message(lambda: bounds.load_toml('t = "a\\u0000"', source="f")) == (
         "f: t = 'a\\x00': text without NUL characters")
     assert _message(lambda: bounds.check_document("a\x00")) == (

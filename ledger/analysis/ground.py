@@ -36,6 +36,7 @@ from ledger.analysis.ground_types import (
     GroundVehicle,
     RuleSetDocument,
 )
+from ledger.bounds import item_field
 from ledger.caution import CAUTION_SHORT, GROUND_CAUTION
 from ledger.core.ground import cg_height_axle_lift, corner_weights
 from ledger.errors import InputError
@@ -153,7 +154,7 @@ def angles_from_lift(lift_m: Sequence[float], wheelbase_m: float) -> list[float]
     out = []
     for i, h in enumerate(lift_m):
         if not math.isfinite(h) or h <= 0 or h >= wheelbase_m:
-            raise InputError(f"--lift[{i + 1}]", h,
+            raise InputError(item_field("--lift", i), h,
                              f"a lift height greater than 0 and less than the wheelbase "
                              f"{wheelbase_m:g} m")
         out.append(math.degrees(math.asin(h / wheelbase_m)))
@@ -355,7 +356,7 @@ def _as_options(exc: InputError, grounded: str) -> None:
              "total_tilted": "--total-tilted"}
     base, _, rest = exc.field.partition("[")
     if base in names:
-        exc.field = names[base] + (f"[{int(rest.rstrip(']')) + 1}]" if rest else "")
+        exc.field = item_field(names[base], int(rest.rstrip("]"))) if rest else names[base]
         if base == "theta_rad":
             exc.value = _degrees_of(exc.value)
             exc.allowed = _degrees_text(exc.allowed)

@@ -52,6 +52,7 @@ from ledger.analysis.mass_items import (
     plan_mass_items,
 )
 from ledger.analysis.shapes import describe_shape, shape_tensor
+from ledger.bounds import item_field
 from ledger.caution import CAUTION
 from ledger.core.inertia import (
     BODY_AXES,
@@ -341,4 +342,4 @@ def _check_finite(obj: object, path: str = "document") -> None:
             _check_finite(v, f"{path}.{k}")
     elif isinstance(obj, list):
         for i, v in enumerate(obj):
-            _check_finite(v, f"{path}[{i}]")
+            _check_finite(v, item_field(path, i))

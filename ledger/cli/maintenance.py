@@ -68,7 +68,11 @@ def _recorded(ctx: typer.Context, as_json: bool, call) -> None:
     from ledger.report.ledger import render_entry
 
     recorded = call(common.state(ctx).engine())
-    common.emit(recorded.document, render_entry, as_json)
+    if recorded.more:  # a pitched weighing: the weighing, then its CG height
+        common.emit([recorded.document, *recorded.more],
+                    lambda docs: [render_entry(d) for d in docs], as_json)
+    else:
+        common.emit(recorded.document, render_entry, as_json)
 
 
 def weigh(ctx: typer.Context, registration: str = REG_ARG,
@@ -93,6 +97,15 @@ def weigh(ctx: typer.Context, registration: str = REG_ARG,
           note: str = typer.Option(None, "--note", metavar="TEXT", help="Anything else."),
           reason: str = typer.Option(None, "--reason", metavar="TEXT", help=REASON_HELP),
           reference: str = REF_OPTION,
+          pitched_reading: list[str] = typer.Option(
+              None, "--pitched-reading", metavar="POINT=MASS",
+              help="Reading with the vehicle pitched nose-up, one per point: the vertical CG "
+                   "is recorded as a CG-height entry after the weighing."),
+          pitch: str = typer.Option(None, "--pitch", metavar="ANGLE",
+                                    help="Nose-up pitch of the pitched readings (e.g. 8 deg)."),
+          points_z: str = typer.Option(None, "--points-z", metavar="LENGTH",
+                                       help="Vertical arm of the weighing points (jack pads) "
+                                            "for the pitched readings."),
           by: str = common.BY_OPTION, as_json: bool = common.JSON_OPTION) -> None:
     """Record a weighing: the empty mass and CG from the scale readings start a new baseline."""
     from ledger.services import weighing
@@ -101,10 +114,12 @@ def weigh(ctx: typer.Context, registration: str = REG_ARG,
     tares = _pairs(tare, "--tare", "nose=4 lb")
     fuels = _pairs(fuel, "--fuel", "'left wing=10 USgal'")
     adjustments = weighing.parse_adjustments(adjust)
+    pitched = weighing.pitched_weighing(
+        _pairs(pitched_reading, "--pitched-reading", "nose=505 lb"), pitch, points_z)
     _recorded(ctx, as_json, lambda engine: weighing.weigh(
         engine, registration, readings, tares=tares, fuel=fuels, adjustments=adjustments,
         actor=common.actor(by), entry_date=entry_date, scales=scales, level=level, note=note,
-        reason=reason, reference=reference))
+        reason=reason, reference=reference, pitched=pitched))
 
 
 def install(ctx: typer.Context, registration: str = REG_ARG,

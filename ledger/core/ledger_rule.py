@@ -10,8 +10,15 @@ against the same arithmetic.
   measured; their delta is ``new − previous``. The vertical moment is known when measured.
 - **Other kinds** (installation, removal, correction) add a delta; the vertical CG stays known
   only while every delta since has a known vertical moment (never assumed 0).
-- The first entry of a vehicle is a weighing; entries keep date order; the empty mass stays
-  above 0; a weighing starts a new baseline.
+- The first entry of a vehicle is a weighing; the empty mass stays above 0; a weighing starts
+  a new baseline.
+- Entries are ordered by their sequence number, the order they were recorded in; each keeps
+  the date of the work as given. Late paperwork is normal (issue 13 item 15): a change
+  (installation, removal, correction) dated before the newest entry is accepted, as long as it
+  is not dated before the weighing the running state starts from (that weighing already
+  measured anything done before it). A measurement (weighing, CG height) sets the state to what
+  was measured, so it is never dated before the newest entry: it would drop the changes
+  recorded since.
 - An item is installed by an installation, or by a correction that reverses a removal.
 
 Negligible changes (AC 43.13-1B CHG 1, §10-2c): a change of empty weight of 1 lb or less for an
@@ -38,9 +45,11 @@ __all__ = [
     "LedgerRuleError",
     "FirstEntryNotWeighing",
     "EntryOutOfOrder",
+    "EntryBeforeBaseline",
     "EmptyMassNotPositive",
     "check_first",
     "check_date",
+    "is_late",
     "apply_entry",
     "item_delta",
     "reversal_delta",
@@ -122,12 +131,21 @@ class FirstEntryNotWeighing(LedgerRuleError):
 
 
 class EntryOutOfOrder(LedgerRuleError):
-    """The entry's date is before that of the vehicle's newest entry."""
+    """A measurement (weighing, CG height) dated before the vehicle's newest entry."""
 
     def __init__(self, previous_seq: int, previous_date: dt.date) -> None:
         super().__init__(previous_seq, previous_date)
         self.previous_seq = previous_seq
         self.previous_date = previous_date
+
+
+class EntryBeforeBaseline(LedgerRuleError):
+    """A change dated before the weighing the running state starts from."""
+
+    def __init__(self, baseline_seq: int, baseline_date: dt.date) -> None:
+        super().__init__(baseline_seq, baseline_date)
+        self.baseline_seq = baseline_seq
+        self.baseline_date = baseline_date
 
 
 class EmptyMassNotPositive(LedgerRuleError):
@@ -150,21 +168,39 @@ def check_first(state: RunningState, kind: str) -> None:
         raise FirstEntryNotWeighing(kind)
 
 
-def check_date(state: RunningState, day: dt.date) -> None:
-    """Refuse a date before that of the newest entry (entries are kept in date order)."""
-    if state.entry_date is not None and day < state.entry_date:
+def is_late(state: RunningState, day: dt.date) -> bool:
+    """Whether an entry dated ``day`` is dated before the vehicle's newest entry: only then
+    does :func:`check_date` need the date of the baseline weighing."""
+    return state.entry_date is not None and day < state.entry_date
+
+
+def check_date(state: RunningState, kind: str, day: dt.date,
+               baseline_date: dt.date | None = None) -> None:
+    """Refuse a measurement dated before the newest entry, and a change dated before the
+    baseline weighing (``baseline_date``, the date of entry ``state.baseline_seq``; needed
+    only when :func:`is_late`). A later or equal date is always accepted."""
+    if not is_late(state, day):
+        return
+    if kind in ABSOLUTE_KINDS:
+        assert state.entry_date is not None  # is_late
         raise EntryOutOfOrder(state.seq, state.entry_date)
+    if baseline_date is not None and day < baseline_date:
+        assert state.baseline_seq is not None  # a vehicle with entries has a baseline
+        raise EntryBeforeBaseline(state.baseline_seq, baseline_date)
 
 
-def apply_entry(state: RunningState, kind: str, day: dt.date, values: Moments) -> EntryEffect:
+def apply_entry(state: RunningState, kind: str, day: dt.date, values: Moments, *,
+                baseline_date: dt.date | None = None) -> EntryEffect:
     """The effect of an entry of ``kind`` dated ``day`` on the running ``state``.
 
     ``values`` is the measured state for an absolute kind (:data:`ABSOLUTE_KINDS`), else the
-    change. Returns the entry's change and the state after it (``effect.after``).
+    change. Returns the entry's change and the state after it (``effect.after``), whose
+    ``entry_date`` is ``day`` as given, even when it is before the previous entry's (late
+    paperwork; ``baseline_date`` as in :func:`check_date`).
 
     Raises
     ------
-    FirstEntryNotWeighing, EntryOutOfOrder, EmptyMassNotPositive
+    FirstEntryNotWeighing, EntryOutOfOrder, EntryBeforeBaseline, EmptyMassNotPositive
         The entry breaks the rule; nothing is computed.
 
     Examples
@@ -179,7 +215,7 @@ def apply_entry(state: RunningState, kind: str, day: dt.date, values: Moments) -
     (1010.0, 2030.0, 1, False)
     """
     check_first(state, kind)
-    check_date(state, day)
+    check_date(state, kind, day, baseline_date)
     seq = state.seq + 1
     if kind in ABSOLUTE_KINDS:
         m, mx, my = _f(values.mass_kg), _f(values.mx_kgm), _f(values.my_kgm)

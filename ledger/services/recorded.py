@@ -24,10 +24,18 @@ class RecordedEntry:
 
     entry: Entry
     document: dict[str, Any]
+    #: The lines of entries appended with it (a pitched weighing's CG height), in order.
+    more: tuple[dict[str, Any], ...] = ()
 
 
-def record(engine: Engine, append: Callable[[Session], Entry]) -> RecordedEntry:
-    """Run ``append(session)`` in one unit of work and read back the line it made."""
+def record(engine: Engine, append: Callable[[Session], Entry], *,
+           following: int = 0) -> RecordedEntry:
+    """Run ``append(session)`` in one unit of work and read back the line it made, and those
+    of the ``following`` entries it appended after it."""
+    from ledger.store.entries import get_entry
+
     with unit_of_work(engine) as session:
         entry = append(session)
-        return RecordedEntry(entry, entry_view(session, entry))
+        more = tuple(entry_view(session, get_entry(session, entry.registration, entry.seq + k))
+                     for k in range(1, following + 1))
+        return RecordedEntry(entry, entry_view(session, entry), more)

@@ -21,6 +21,7 @@ from ledger.bounds import load_json
 from ledger.core.ledger_rule import (
     ABSOLUTE_KINDS,
     EmptyMassNotPositive,
+    EntryBeforeBaseline,
     EntryEffect,
     EntryOutOfOrder,
     FirstEntryNotWeighing,
@@ -29,6 +30,7 @@ from ledger.core.ledger_rule import (
     apply_entry,
     check_date,
     check_first,
+    is_late,
     item_delta,
     leaves_installed,
     reversal_delta,
@@ -36,7 +38,7 @@ from ledger.core.ledger_rule import (
 from ledger.errors import InputError
 from ledger.store.catalog import get_vehicle
 from ledger.store.chain import GENESIS_HASH, canonical_json, content_hash
-from ledger.store.heads import newest_entry
+from ledger.store.heads import baseline_date, date_refusal, newest_entry
 from ledger.store.history_file import Record, parse_history, parse_recorded
 from ledger.store.models import ENTRY_KINDS, LedgerEntryRow
 from ledger.store.sqlite_path import sqlite_insert
@@ -299,10 +301,10 @@ def _sealed(row: Record, values: Mapping[str, Any], registration: str) -> str:
 
 
 def _follow_rule(row: Record, state: RunningState, kind: str, day: dt.date,
-                 given: Moments) -> EntryEffect:
+                 given: Moments, base: dt.date | None) -> EntryEffect:
     """:func:`ledger.core.ledger_rule.apply_entry`, its refusals located at the row."""
     try:
-        return apply_entry(state, kind, day, given)
+        return apply_entry(state, kind, day, given, baseline_date=base)
     except EmptyMassNotPositive as exc:
         raise row.err("empty_mass_kg", exc.mass_kg,
                       "an empty mass above 0 kg after this entry") from None
@@ -323,6 +325,7 @@ class _Importer:
         self.now = dt.datetime.now(dt.UTC)
         self.vtype = None  # read for the first weighing, whose empty mass must be plausible
         self.dates: dict[str, dt.date] = {}
+        self.weighed: dt.date | None = None  # the date of the newest weighing in this file
 
     def _plausible(self, mass_kg: float) -> str | None:
         # Imported here: it loads numpy, which only an import with a weighing needs.
@@ -346,12 +349,11 @@ class _Importer:
         if kind not in ENTRY_KINDS:
             raise row.err("kind", kind, "one of " + ", ".join(ENTRY_KINDS))
         day = _row_date(row, self.dates, self.today)
+        base = self.baseline_date(day)
         try:
-            check_date(state, day)
-        except EntryOutOfOrder as exc:
-            raise row.err("entry_date", day.isoformat(),
-                          f"a date on or after that of entry {exc.previous_seq} "
-                          f"({exc.previous_date}): entries are kept in date order") from None
+            check_date(state, kind, day, base)
+        except (EntryOutOfOrder, EntryBeforeBaseline) as exc:
+            raise row.err("entry_date", day.isoformat(), date_refusal(exc, kind)) from None
         recorded = parse_recorded(row, self.now)
         actor = row.text("actor", required=True)
         reason = row.text("reason", max_len=4000)
@@ -369,7 +371,7 @@ class _Importer:
         else:
             change = _item_change(row, kind, seq, item, detail, self.items)
             given = change.delta
-        effect = _follow_rule(row, state, kind, day, given)
+        effect = _follow_rule(row, state, kind, day, given, base)
         if change is not None:
             self.items.targets[seq] = _Target(
                 kind, item, change.mass_kg, change.x_m, change.y_m, change.z_m,
@@ -394,7 +396,18 @@ class _Importer:
         _check_computed(row, values)
         values["entry_hash"] = _sealed(row, values, self.vehicle.registration)
         self.state, self.prev_hash = effect.after, values["entry_hash"]
+        if kind == "weighing":
+            self.weighed = day
         return values
+
+    def baseline_date(self, day: dt.date) -> dt.date | None:
+        """The date of the weighing the state starts from, for late paperwork: one weighed in
+        this file, else read from the stored ledger."""
+        if not is_late(self.state, day):
+            return None
+        if self.weighed is not None:
+            return self.weighed
+        return baseline_date(self.session, self.vehicle.id, self.state, day)
 
 
 def import_entries(session: Session, registration: str, records: Iterable[tuple[int, Mapping]],

@@ -27,7 +27,7 @@ from typing import Any
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from ledger.bounds import NAME_MAX, TEXT_MAX, check_text
+from ledger.bounds import NAME_MAX, TEXT_MAX, check_text, item_field
 from ledger.errors import ChainError, ConflictError, InputError, NotFoundError
 from ledger.store.chain import GENESIS_HASH, canonical_json
 from ledger.store.models import ConfigurationRow, VehicleRow, VehicleTypeRow
@@ -232,7 +232,7 @@ def _items_in_si(items: Sequence[Mapping[str, Any]], units) -> list[dict]:
     for j, raw in enumerate(items):
         action = raw.get("action")
         if action not in ACTIONS:
-            raise InputError(f"items[{j}].action", action, "install or remove")
+            raise InputError(f"{item_field('items', j)}.action", action, "install or remove")
         flag = f"--{action}"
         iname = _text(raw.get("name"), f"{flag} name", required=True)
         if iname in seen:

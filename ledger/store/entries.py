@@ -46,6 +46,7 @@ from sqlalchemy.orm import Session
 from ledger.core.ledger_rule import (
     ABSOLUTE_KINDS,
     EmptyMassNotPositive,
+    EntryBeforeBaseline,
     EntryEffect,
     EntryOutOfOrder,
     FirstEntryNotWeighing,
@@ -71,6 +72,8 @@ from ledger.store.heads import (
     INSERT,
     Head,
     VehicleKey,
+    baseline_date,
+    date_refusal,
     locked_item_state,
     newest_entry,
     newest_item_entry,
@@ -199,7 +202,9 @@ def append_entry(session: Session, registration: str, kind: str, *, actor: str,
     vehicle = _vehicle_row if _vehicle_row is not None else vehicle_key(session, registration,
                                                                       lock=True)
     head = newest_entry(session, vehicle.id) if _head_row is False else _head_row
-    effect = _apply(head, kind, day, given, registration)
+    effect = _apply(head, kind, day, given, registration,
+                    None if head is None else baseline_date(session, vehicle.id,
+                                                            head.state(), day))
     values = {
         "vehicle_id": vehicle.id, "kind": kind, "entry_date": day,
         "recorded_at": _now() if recorded_at is None else utc(recorded_at),
@@ -249,19 +254,16 @@ def _given(kind: str, delta: Sequence[float | None] | None,
 
 
 def _apply(head: Head | None, kind: str, day: dt.date, given: Moments,
-           registration: str) -> EntryEffect:
+           registration: str, baseline: dt.date | None) -> EntryEffect:
     """:func:`ledger.core.ledger_rule.apply_entry` on the vehicle's newest entry, its refusals
-    worded for an entry recorded by hand."""
+    worded for an entry recorded by hand (``baseline``: :func:`baseline_date`)."""
     try:
-        return apply_entry(RunningState() if head is None else head.state(), kind, day, given)
+        return apply_entry(RunningState() if head is None else head.state(), kind, day, given,
+                           baseline_date=baseline)
     except FirstEntryNotWeighing:
         raise no_weighing(registration) from None
-    except EntryOutOfOrder as exc:
-        raise InputError("--date", day.isoformat(),
-                         f"a date on or after that of entry {exc.previous_seq} "
-                         f"({exc.previous_date}): entries are kept in date order",
-                         hint="Record it with today's date and give the date of the work "
-                              "in --reason") from None
+    except (EntryOutOfOrder, EntryBeforeBaseline) as exc:
+        raise InputError("--date", day.isoformat(), date_refusal(exc, kind)) from None
     except EmptyMassNotPositive as exc:
         from ledger.units import format_quantity
 
@@ -441,7 +443,8 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
                     adjustments: Sequence[Mapping[str, Any]] = (),
                     entry_date: dt.date | str | None = None, scales: str | None = None,
                     level: str | None = None, note: str | None = None,
-                    reason: str | None = None, reference: str | None = None) -> Entry:
+                    reason: str | None = None, reference: str | None = None,
+                    pitched: Any = None) -> Entry:
     """Record a weighing: a reading at every weighing point of the type → new baseline.
 
     Parameters
@@ -460,6 +463,12 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
         for the weighing), a negative one removed (equipment not part of the empty vehicle).
     scales, level, note : str, optional
         Equipment used, how the vehicle was levelled, anything else; kept in the entry.
+    pitched : ledger.typedata.scales.PitchedWeighing, optional
+        Readings with the vehicle pitched nose-up: the vertical CG they give
+        (:func:`ledger.core.weighing.vertical_cg_from_pitch`) is recorded as a CG-height entry
+        right after the weighing, with the same date (issue 13 item 17).
+
+    Returns the weighing's entry.
 
     The computation is :func:`ledger.core.weighing.empty_weight_from_scales` (FAA-H-8083-1,
     weighing chapter: net = reading − tare; CG = Σ(R·x)/ΣR; remove usable fuel, keep unusable).
@@ -478,7 +487,13 @@ def record_weighing(session: Session, registration: str, readings: Mapping[str, 
     info = vehicle_type_info(session, vehicle)
     w = weighing_from_readings(info.vtype, info.name, info.revision, readings, tares=tares,
                                fuel=fuel, adjustments=adjustments, scales=scales, level=level,
-                               note=note)
-    return append_entry(session, registration, "weighing", actor=actor, entry_date=entry_date,
-                        state=(w.mass_kg, w.mx_kgm, w.my_kgm, w.mz_kgm), reason=reason,
-                        reference=reference, detail=w.detail, _vehicle_row=vehicle)
+                               note=note, pitched=pitched)
+    weighing = append_entry(session, registration, "weighing", actor=actor,
+                            entry_date=entry_date,
+                            state=(w.mass_kg, w.mx_kgm, w.my_kgm, w.mz_kgm), reason=reason,
+                            reference=reference, detail=w.detail, _vehicle_row=vehicle)
+    if w.cg_height is not None:
+        record_cg_height(session, registration, w.cg_height["cg_z_m"], actor=actor,
+                         entry_date=weighing.entry_date, reason=reason, reference=reference,
+                         detail=w.cg_height["detail"])
+    return weighing

@@ -1,7 +1,12 @@
 """Reading a vehicle's ledger: its current empty state, its entries, its installed items.
 
 Figures for operation start from :func:`current_empty`, which verifies the vehicle's evidence
-first. ``as_of`` (a date or ``YYYY-MM-DD`` text) reads the ledger as it stood on that date.
+first. ``as_of`` (a date or ``YYYY-MM-DD`` text) reads the ledger as it stood on that date:
+the entries, in sequence, up to the first one dated after it. Every state read so is one the
+ledger stored (a running state is kept after each entry, in sequence), so late paperwork (an
+entry dated before one recorded earlier, issue 13 item 15) counts from its place in the
+sequence: an entry recorded after one dated later than ``as_of`` is not included, whatever
+its own date.
 """
 
 from __future__ import annotations
@@ -42,9 +47,15 @@ def entry_at(session: Session, vehicle: VehicleKey, seq: int) -> Entry:
     return entry_from_row(vehicle.registration, row)
 
 
-def _as_of_filter(query, as_of):
+def _as_of_filter(query, as_of, vehicle_id: int):
+    """``query`` limited to the entries before the first one dated after ``as_of``."""
     if as_of is not None:
-        query = query.where(_E.entry_date <= parse_date(as_of, field="--as-of"))
+        day = parse_date(as_of, field="--as-of")
+        first_later = (select(func.min(_E.seq))
+                       .where(_E.vehicle_id == vehicle_id, _E.entry_date > day)
+                       .scalar_subquery())
+        query = query.where(_E.entry_date <= day,
+                            (first_later.is_(None)) | (_E.seq < first_later))
     return query
 
 
@@ -74,7 +85,7 @@ def current_empty(session: Session, registration: str, *,
     query = _as_of_filter(
         select(_E.id, _E.seq, _E.entry_date, _E.empty_mass_kg, _E.empty_mx_kgm,
                _E.empty_my_kgm, _E.empty_mz_kgm, _E.z_known, _E.baseline_seq, _E.entry_hash)
-        .where(_E.vehicle_id == vehicle.id), as_of).order_by(_E.seq.desc()).limit(1)
+        .where(_E.vehicle_id == vehicle.id), as_of, vehicle.id).order_by(_E.seq.desc()).limit(1)
     row = session.execute(query).first()
     if row is None:
         if as_of is not None and newest_entry(session, vehicle.id) is not None:
@@ -90,7 +101,7 @@ def entries_of(session: Session, registration: str, *,
     """Every entry of a vehicle in ``seq`` order (up to ``as_of`` if given)."""
     vehicle = vehicle_key(session, registration)
     cols = [getattr(_E, c) for c in ENTRY_COLUMNS]
-    query = _as_of_filter(select(*cols).where(_E.vehicle_id == vehicle.id), as_of)
+    query = _as_of_filter(select(*cols).where(_E.vehicle_id == vehicle.id), as_of, vehicle.id)
     rows = session.execute(query.order_by(_E.seq))
     return [entry_from_row(vehicle.registration, r) for r in rows]
 
@@ -108,7 +119,8 @@ def installed_items(session: Session, registration: str, *,
     query = _as_of_filter(
         select(_E.seq, _E.kind, _E.entry_date, _E.item, _E.item_mass_kg, _E.item_x_m,
                _E.item_y_m, _E.item_z_m, _E.detail_json)
-        .where(_E.vehicle_id == vehicle.id, _E.item.is_not(None)), as_of).order_by(_E.seq)
+        .where(_E.vehicle_id == vehicle.id, _E.item.is_not(None)), as_of,
+        vehicle.id).order_by(_E.seq)
     on: dict[str, InstalledItem] = {}
     for seq, kind, day, name, m, x, y, z, detail_json in session.execute(query):
         if installs(kind, detail_json):

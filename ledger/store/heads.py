@@ -16,7 +16,13 @@ from typing import NamedTuple
 from sqlalchemy import bindparam, insert, select, true
 from sqlalchemy.orm import Session
 
-from ledger.core.ledger_rule import RunningState, leaves_installed
+from ledger.core.ledger_rule import (
+    EntryBeforeBaseline,
+    EntryOutOfOrder,
+    RunningState,
+    is_late,
+    leaves_installed,
+)
 from ledger.store.catalog import get_vehicle, registration_key
 from ledger.store.models import LedgerEntryRow, VehicleRow
 from ledger.store.sqlite_path import driver
@@ -30,6 +36,8 @@ __all__ = [
     "installs",
     "vehicle_key",
     "newest_entry",
+    "baseline_date",
+    "date_refusal",
     "newest_item_entry",
     "head_and_item",
     "locked_item_state",
@@ -86,6 +94,28 @@ class Head(NamedTuple):
     def state(self) -> RunningState:
         return RunningState(self.seq, self.entry_date, self.mass_kg, self.mx_kgm, self.my_kgm,
                             self.mz_kgm, bool(self.z_known), self.baseline_seq)
+
+
+def baseline_date(session: Session, vehicle_id: int, state: RunningState,
+                  day: dt.date) -> dt.date | None:
+    """The date of the weighing ``state`` starts from, read only for late paperwork (an entry
+    dated ``day``, before the newest entry): what
+    :func:`ledger.core.ledger_rule.check_date` needs then."""
+    if not is_late(state, day) or state.baseline_seq is None:
+        return None
+    return session.scalar(select(_E.entry_date).where(_E.vehicle_id == vehicle_id,
+                                                      _E.seq == state.baseline_seq))
+
+
+def date_refusal(exc: EntryOutOfOrder | EntryBeforeBaseline, kind: str) -> str:
+    """What date an entry may have, for a date the ledger's rule refused."""
+    if isinstance(exc, EntryBeforeBaseline):
+        return (f"a date on or after that of the weighing the empty state starts from, entry "
+                f"{exc.baseline_seq} ({exc.baseline_date}): that weighing already measured "
+                "the work done before it")
+    return (f"a date on or after that of entry {exc.previous_seq} ({exc.previous_date}): a "
+            f"{kind.replace('_', ' ')} sets the empty state to what was measured, so it is not "
+            "dated before changes already recorded")
 
 
 class ItemState(NamedTuple):

@@ -20,7 +20,7 @@ from typing import Any
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from ledger.bounds import NUMBER_RULE, TEXT_MAX, check_text, in_range, load_json, shown
+from ledger.bounds import NUMBER_RULE, TEXT_MAX, check_text, in_range, item_field, load_json, shown
 from ledger.errors import InputError
 from ledger.store.catalog import get_vehicle
 from ledger.store.chain import utc_text
@@ -213,12 +213,13 @@ def _parse_json(text: str, source: str) -> list[tuple[int, dict]]:
     for i, e in enumerate(entries):
         where = lines[i] if lines else None
         if not isinstance(e, dict):
-            raise InputError(f"entries[{i}]", type(e).__name__, "a JSON object",
+            raise InputError(item_field("entries", i), type(e).__name__, "a JSON object",
                              source=f"{source} line {where}" if where else source)
         rec = dict(e)
         if "detail" in rec:
             if "detail_json" in rec:
-                raise InputError(f"entries[{i}].detail", "…", "detail or detail_json, not both",
+                raise InputError(f"{item_field('entries', i)}.detail", "…",
+                                 "detail or detail_json, not both",
                                  source=f"{source} line {where}" if where else source)
             rec["detail_json"] = rec.pop("detail")
         for k in rec:

@@ -7,6 +7,7 @@ import math
 import types
 import typing
 
+from ledger.bounds import item_field
 from ledger.errors import TypeDataError
 from ledger.units import DisplayUnits
 
@@ -70,10 +71,11 @@ def _from_jsonable(tp, value, where: str):
         if not isinstance(value, (list, tuple)):
             raise _bad(where, value, "a list")
         if len(args) == 2 and args[1] is Ellipsis:
-            return tuple(_from_jsonable(args[0], v, f"{where}[{i}]") for i, v in enumerate(value))
+            return tuple(_from_jsonable(args[0], v, item_field(where, i))
+                         for i, v in enumerate(value))
         if len(args) != len(value):
             raise _bad(where, value, f"a list of {len(args)}")
-        return tuple(_from_jsonable(a, v, f"{where}[{i}]")
+        return tuple(_from_jsonable(a, v, item_field(where, i))
                      for i, (a, v) in enumerate(zip(args, value)))
     if tp is DisplayUnits:
         if not isinstance(value, dict) or set(value) != {"mass", "length", "volume",

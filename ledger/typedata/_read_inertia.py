@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from ledger.bounds import item_field
 from ledger.errors import TypeDataError
 from ledger.typedata import type_keys as K
 from ledger.typedata._messages import _MISSING, _disp, _listing, _typename
@@ -77,7 +78,7 @@ class _InertiaReader:
             disabled = t.array("disables_stations", what="an array of station names") or []
             for j, s in enumerate(disabled):
                 if not isinstance(s, str) or s not in station_names:
-                    raise _err(f"{t.field('disables_stations')}[{j}]", s,
+                    raise _err(item_field(t.field("disables_stations"), j), s,
                                f"expected a station name: {_listing(station_names) or 'none'}")
             items = []
             for j, iraw in enumerate(_tables(raw, "item", f"{path}.item")):

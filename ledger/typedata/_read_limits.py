@@ -5,7 +5,8 @@ from __future__ import annotations
 import math
 
 from ledger import units as U
-from ledger.errors import TypeDataError
+from ledger.bounds import counted_from_one, item_field
+from ledger.errors import InputError, TypeDataError
 from ledger.typedata import type_keys as K
 from ledger.typedata._messages import _MISSING, _a, _disp, _listing, _Shown
 from ledger.typedata._toml import _err, _named_path, _Table, _tables
@@ -82,23 +83,26 @@ class _LimitsReader:
             points = []  # SI
             shown = []  # the same points in display units, for the polygon check's messages
             for j, p in enumerate(raw_points):
-                where = f"{t.field('points')}[{j}]"
+                where = item_field(t.field("points"), j)
                 if not isinstance(p, list) or len(p) != 2:
                     raise _err(where, p, "expected a point [cg, mass]")
                 if coords == "arm":
-                    cg = self.length(t, "", value=p[0], field=f"{where}[0]")
+                    cg = self.length(t, "", value=p[0], field=item_field(where, 0))
                 else:
-                    cg = U.parse_moment(p[0], du.moment_unit, field=f"{where}[0]")
+                    cg = U.parse_moment(p[0], du.moment_unit, field=item_field(where, 0))
                     if U.is_bare_number(p[0]):  # a bare number is a moment index
                         cg *= du.moment_divisor
-                m = self.mass(t, "", value=p[1], field=f"{where}[1]", positive=True)
+                m = self.mass(t, "", value=p[1], field=item_field(where, 1), positive=True)
                 points.append((cg, m))
                 shown.append((du.moment_index(cg) if coords == "moment" else
                                U.to_unit(cg, du.length), U.to_unit(m, du.mass)))
             # Checked in display units so that a message shows the points as written; scaling
             # each axis does not change whether edges cross. The check drops a closing point
             # equal to the first, so an open and a closed ring give the same type and hash.
-            ring = validate_polygon(shown, field=t.field("points"))
+            try:
+                ring = validate_polygon(shown, field=t.field("points"))
+            except InputError as exc:  # the core counts points from 0
+                raise counted_from_one(exc, t.field("points")) from None
             kept = tuple(points[:len(ring)])
             out.append(Envelope(name=name, category=category, axis=axis, coordinates=coords,
                                 points=kept, note=t.string("note", default="")))
@@ -134,7 +138,7 @@ class _LimitsReader:
             for j, other in enumerate(axles):
                 if other.x_m == x:
                     raise _err(t.field("x"), t.get("x"), f"expected a different arm from "
-                               f"axle[{j}] ({other.name})")
+                               f"{item_field('axle', j)} ({other.name})")
             axles.append(Axle(name, x, rating, track))
         self._unique("axle", axles, "axle names")
         groups = []
@@ -148,10 +152,10 @@ class _LimitsReader:
                 raise _err(t.field("axles"), members, "expected at least two axle names")
             for j, m in enumerate(members):
                 if not isinstance(m, str) or m not in by_name:
-                    raise _err(f"{t.field('axles')}[{j}]", m,
+                    raise _err(item_field(t.field("axles"), j), m,
                                f"expected one of the axles: {_listing(by_name)}")
                 if m in member_of:
-                    raise _err(f"{t.field('axles')}[{j}]", m,
+                    raise _err(item_field(t.field("axles"), j), m,
                                f"already in axle group {member_of[m]!r}")
                 member_of[m] = name
             shares_raw = t.array("load_share", what="an array of load-share ratios")
@@ -164,7 +168,7 @@ class _LimitsReader:
                 for j, s in enumerate(shares_raw):
                     if isinstance(s, bool) or not isinstance(s, (int, float)) \
                             or not math.isfinite(s) or s <= 0:
-                        raise _err(f"{t.field('load_share')}[{j}]", s,
+                        raise _err(item_field(t.field("load_share"), j), s,
                                    "expected a ratio greater than 0")
                 shares = tuple(float(s) for s in shares_raw)
                 if abs(math.fsum(shares) - 1.0) > 1e-6:

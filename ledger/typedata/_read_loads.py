@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from ledger import units as U
+from ledger.bounds import item_field
 from ledger.errors import TypeDataError
 from ledger.typedata import type_keys as K
 from ledger.typedata._messages import _MISSING, _a, _disp, _listing, _typename
@@ -138,7 +139,7 @@ class _LoadsReader:
         out = []
         axes_in_rows = None
         for j, row in enumerate(rows):
-            where = f"{base}[{j}]"
+            where = item_field(base, j)
             if not isinstance(row, dict):
                 raise _err(where, row, f"expected a row {{quantity = ..., x = ...}}, got "
                            f"{_typename(row)}")
@@ -165,11 +166,11 @@ class _LoadsReader:
                            "; rows must be in strictly increasing quantity")
             out.append(TankArmPoint(q, x, y, z))
         if out[0].quantity > unusable:
-            raise _err(f"{base}[0].quantity", rows[0]["quantity"],
+            raise _err(f"{item_field(base, 0)}.quantity", rows[0]["quantity"],
                        f"expected at most the unusable quantity ({_disp(unusable, dunit)}); "
                        "the table must cover the tank from unusable to capacity")
         if out[-1].quantity < capacity:
-            raise _err(f"{base}[{len(rows) - 1}].quantity", rows[-1]["quantity"],
+            raise _err(f"{item_field(base, len(rows) - 1)}.quantity", rows[-1]["quantity"],
                        f"expected at least the capacity ({_disp(capacity, dunit)}); "
                        "the table must cover the tank from unusable to capacity")
         del lu

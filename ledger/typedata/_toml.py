@@ -5,6 +5,7 @@ from __future__ import annotations
 import difflib
 import math
 
+from ledger.bounds import item_field
 from ledger.errors import TypeDataError
 from ledger.typedata._messages import _MISSING, _listing, _show, _typename
 
@@ -126,8 +127,9 @@ def _tables(data: dict, key: str, path: str | None = None) -> list[dict]:
 
 
 def _named_path(base: str, index: int, raw: dict) -> str:
-    """``station['pilot']`` when the entry has a usable name, else ``station[3]``."""
+    """``station['pilot']`` when the entry has a usable name, else ``station[3]`` (the third,
+    counted from 1 by :func:`ledger.bounds.item_field`)."""
     name = raw.get("name")
     if isinstance(name, str) and name and name == name.strip() and len(name) <= _NAME_MAX:
         return f"{base}[{name!r}]"
-    return f"{base}[{index}]"
+    return item_field(base, index)

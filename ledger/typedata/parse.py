@@ -17,7 +17,7 @@ import re
 import tomllib
 
 from ledger import units as U
-from ledger.bounds import SOURCE_NAME_MAX, load_toml, shown
+from ledger.bounds import SOURCE_NAME_MAX, item_field, load_toml, shown
 from ledger.errors import InputError, TypeDataError
 from ledger.files import INPUT_LIMIT, read_input_text
 from ledger.typedata import type_keys as K
@@ -154,18 +154,18 @@ class _Reader(_LoadsReader, _LimitsReader, _InertiaReader):
             for i, it in enumerate(items):
                 key = it.name.casefold()
                 if key in seen:
-                    raise _err(f"{kind}[{i}].name", it.name,
+                    raise _err(f"{item_field(kind, i)}.name", it.name,
                                f"already used by {seen[key]}; station and tank names must "
                                "differ (ignoring case)")
-                seen[key] = f"{kind}[{i}]"
+                seen[key] = item_field(kind, i)
 
     def _unique(self, base: str, items: list, what: str = "names") -> None:
         seen: dict[str, int] = {}
         for i, it in enumerate(items):
             key = it.name.casefold()
             if key in seen:
-                raise _err(f"{base}[{i}].name", it.name,
-                           f"already used by {base}[{seen[key]}]; {what} must differ "
+                raise _err(f"{item_field(base, i)}.name", it.name,
+                           f"already used by {item_field(base, seen[key])}; {what} must differ "
                            "(ignoring case)")
             seen[key] = i
 

@@ -9,6 +9,8 @@ figures in the message, and returns the measured state with the detail the ledge
 
 from __future__ import annotations
 
+import math
+import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
@@ -18,6 +20,7 @@ from ledger.core.weighing import (
     Correction,
     empty_weight_from_scales,
     plausible_empty_mass,
+    vertical_cg_from_pitch,
 )
 from ledger.errors import ConflictError, InputError
 from ledger.typedata.readings import (
@@ -29,7 +32,8 @@ from ledger.typedata.readings import (
 )
 from ledger.units import format_quantity, parse_quantity_of, to_unit
 
-__all__ = ["ScaleWeighing", "weighing_from_readings", "implausible_empty_mass"]
+__all__ = ["ScaleWeighing", "PitchedWeighing", "weighing_from_readings",
+           "implausible_empty_mass"]
 
 
 @dataclass(frozen=True)
@@ -42,6 +46,19 @@ class ScaleWeighing:
     my_kgm: float
     mz_kgm: float | None
     detail: dict
+    cg_height: dict | None = None  # {"cg_z_m", "detail"} from a pitched weighing, if any
+
+
+@dataclass(frozen=True)
+class PitchedWeighing:
+    """A second set of readings at the same weighing points with the vehicle pitched nose-up
+    (issue 13 item 17); the same tares apply. ``pitch`` is the nose-up angle (degrees, or a
+    text with its unit), ``points_z`` the vertical arm of the plane of the weighing points
+    (jack pads or load cells fixed to the body; m, or a text in the type's length unit)."""
+
+    readings: Mapping[str, Any]
+    pitch: Any
+    points_z: Any
 
 
 def implausible_empty_mass(vtype, mass_kg: float, unit: str) -> str | None:
@@ -65,21 +82,21 @@ def _points_by_name(vtype) -> dict:
 
 
 def _gross(readings: Mapping[str, Any] | None, points: Mapping[str, Any], units,
-           type_name: str, listing: str) -> dict[str, float]:
-    """One reading per weighing point, by the type's point names."""
+           type_name: str, listing: str, option: str = "--reading") -> dict[str, float]:
+    """One reading per weighing point, by the type's point names (``option`` names them)."""
     given: dict[str, float] = {}
     for raw_name, value in (readings or {}).items():
         name = match_name(raw_name, points)
         if name is None:
-            raise InputError("--reading", raw_name, f"not a weighing point of type {type_name}; "
+            raise InputError(option, raw_name, f"not a weighing point of type {type_name}; "
                              f"its points are {listing}")
         if name in given:
-            raise InputError("--reading", raw_name, "given twice; one reading per point")
-        given[name] = parse_mass(value, units, f"--reading {name}")
+            raise InputError(option, raw_name, "given twice; one reading per point")
+        given[name] = parse_mass(value, units, f"{option} {name}")
     for name in points:
         if name not in given:
-            raise InputError("--reading", name, f"missing; type {type_name} is weighed at "
-                             f"{listing}: give one --reading POINT=MASS for each")
+            raise InputError(option, name, f"missing; type {type_name} is weighed at "
+                             f"{listing}: give one {option} POINT=MASS for each")
     return given
 
 
@@ -167,6 +184,64 @@ def _adjustments(adjustments: Sequence[Mapping[str, Any]], units,
     return adj_detail
 
 
+def _as_weighed_height(level, pitched: PitchedWeighing, vt, points: Mapping[str, Any],
+                       names: list[str], tare: Mapping[str, float], type_name: str,
+                       listing: str) -> tuple[float, dict]:
+    """The as-weighed vertical CG from the pitched readings, and what the entry keeps of it.
+
+    The pitched readings are reduced with the level arms; the apparent CG moves aft by
+    ``h·tanθ`` for a CG ``h`` above the plane of the points
+    (:func:`ledger.core.weighing.vertical_cg_from_pitch`).
+    """
+    units = vt.units
+    gp = _gross(pitched.readings, points, units, type_name, listing, "--pitched-reading")
+    deg = parse_amount(pitched.pitch, "angle", "deg", "--pitch")
+    plane = parse_length(pitched.points_z, units, "--points-z")
+    tilted = empty_weight_from_scales(
+        [gp[n] for n in names], [tare.get(n, 0.0) for n in names],
+        [points[n].x_m for n in names], points=names)
+    try:
+        fit = vertical_cg_from_pitch(level.weighed_cg_x, tilted.weighed_cg_x, math.radians(deg),
+                                     plane_z=plane, mass_level=level.weighed_mass,
+                                     mass_pitched=tilted.weighed_mass)
+    except InputError as exc:  # the core's names, as the command's options
+        if exc.field.startswith("pitch_rad"):
+            raise InputError("--pitch", deg, exc.allowed.split(" (")[0], hint=exc.hint) from None
+        if exc.field.startswith("mass_pitched"):
+            raise InputError("--pitched-reading", format_quantity(
+                tilted.weighed_mass, units.mass, 2), exc.allowed.replace(
+                    f"{level.weighed_mass:g} kg", format_quantity(level.weighed_mass,
+                                                                  units.mass, 2)),
+                hint=exc.hint) from None
+        raise
+    detail = {"method": "pitched weighing", "pitch_deg": deg, "points_z_m": plane,
+              "points": {n: {"reading_kg": gp[n], "tare_kg": tare.get(n, 0.0)} for n in names},
+              "apparent_cg_x_m": tilted.weighed_cg_x, "level_cg_x_m": level.weighed_cg_x,
+              "as_weighed_cg_z_m": fit.z_cg}
+    return fit.z_cg, detail
+
+
+def _empty_height(points: Mapping[str, Any], names: list[str], given: Mapping[str, float],
+                  tare: Mapping[str, float], corrections: list, z_cg: float) -> float:
+    """The empty vehicle's vertical CG from the as-weighed one, through the same corrections
+    (each needs its vertical arm)."""
+    try:
+        r = empty_weight_from_scales(
+            [given[n] for n in names], [tare.get(n, 0.0) for n in names],
+            [points[n].x_m for n in names], [points[n].y_m for n in names], points=names,
+            corrections=corrections, z_cg=z_cg)
+    except InputError as exc:
+        if not exc.field.endswith(".z"):
+            raise
+        named = re.search(r"\('(.*)'\)\.z$", exc.field)
+        raise InputError("vertical arm", named.group(1) if named else exc.field,
+                         "a vertical arm (z) for every correction when a pitched weighing "
+                         "gives the vertical CG: give the tank's z in the type file or the "
+                         "adjustment's VERT arm, or weigh without it") from None
+    assert r.cg_z is not None  # z_cg was given
+    return r.cg_z
+
+
 def _refuse_implausible(vt, mass_kg: float, units, readings: Mapping[str, Any],
                         points: Mapping[str, Any], names: list[str]) -> None:
     allowed = implausible_empty_mass(vt, mass_kg, units.mass)
@@ -187,7 +262,8 @@ def weighing_from_readings(vtype, type_name: str, type_revision: int,
                            fuel: Mapping[str, Any] | None = None,
                            adjustments: Sequence[Mapping[str, Any]] = (),
                            scales: str | None = None, level: str | None = None,
-                           note: str | None = None) -> ScaleWeighing:
+                           note: str | None = None,
+                           pitched: PitchedWeighing | None = None) -> ScaleWeighing:
     """The empty vehicle a weighing of type ``vtype`` measured (see
     :func:`ledger.store.entries.record_weighing` for the parameters).
 
@@ -233,4 +309,11 @@ def weighing_from_readings(vtype, type_name: str, type_revision: int,
         text = parse_text(value, f"--{key}", max_len=2000)
         if text:
             detail[key] = text
-    return ScaleWeighing(result.mass, result.moment_x, result.moment_y, result.moment_z, detail)
+    height = None
+    if pitched is not None:
+        z_weighed, height_detail = _as_weighed_height(result, pitched, vt, points, names, tare,
+                                                      type_name, listing)
+        height = {"cg_z_m": _empty_height(points, names, given, tare, corrections,
+                                          z_weighed), "detail": height_detail}
+    return ScaleWeighing(result.mass, result.moment_x, result.moment_y, result.moment_z, detail,
+                         height)

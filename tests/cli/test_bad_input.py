@@ -193,6 +193,10 @@ def files(tmp_path):
     (tmp_path / "heavy.json").write_text(_history({
         "kind": "weighing", **QA, "empty_mass_kg": 100000.0, "empty_mx_kgm": 250000.0,
         "empty_my_kgm": 0.0}))
+    # issue 13 item 9: the second of two persons in one seat, counted from 1
+    (tmp_path / "two-pilots.toml").write_text(
+        PLAN_HEAD + '[[person]]\nseat = "pilot"\nmass = "180 lb"\n'
+        '[[person]]\nseat = "pilot"\nmass = "170 lb"\n')
     return tmp_path
 
 
@@ -301,20 +305,20 @@ CASES = [
      "here: plan_format, vehicle, configuration, category, standard_masses, prepared_by, "
      "axle_rules, note, person, cargo, fuel", 2),
     (["check", "{tmp}/deep-65.toml"],
-     "Error: {tmp}/deep-65.toml: x" + "[0]" * 13 + "… = (nested 65 levels deep): at most 64 "
+     "Error: {tmp}/deep-65.toml: x" + "[1]" * 13 + "… = (nested 65 levels deep): at most 64 "
      "levels of nesting", 2),
     (["import-history", "KVA-101", "{tmp}/bigint.json"],
-     "Error: bigint.json: entries[0].seq = (a whole number of about 31 digits): a number from "
+     "Error: bigint.json: entries[1].seq = (a whole number of about 31 digits): a number from "
      "-1e+15 to 1e+15", 2),
     (["import-history", "KVA-101", "{tmp}/inf.json"],
      "Error: inf.json line 1: item_mass_kg = inf: the item's mass in kg, 0 or more", 2),
     (["import-history", "KVA-101", "{tmp}/absurd.json"],
-     "Error: absurd.json: entries[0].item_x_m = 1e+300: a number from -1e+15 to 1e+15", 2),
+     "Error: absurd.json: entries[1].item_x_m = 1e+300: a number from -1e+15 to 1e+15", 2),
     (["check", "{tmp}/bigint.toml"],
-     "Error: {tmp}/bigint.toml: cargo[0].mass = (a whole number of about 31 digits): a number "
+     "Error: {tmp}/bigint.toml: cargo[1].mass = (a whole number of about 31 digits): a number "
      "from -1e+15 to 1e+15", 2),
     (["check", "{tmp}/inf.toml"],
-     "Error: {tmp}/inf.toml: cargo[0].mass = inf: not a finite number; a mass must be a finite "
+     "Error: {tmp}/inf.toml: cargo[1].mass = inf: not a finite number; a mass must be a finite "
      "number", 2),
     (["correct", "KVA-101", str(2**31), *R],
      "Error: Invalid value for 'SEQ': Input should be less than or equal to 2147483647 (see "
@@ -331,7 +335,7 @@ CASES = [
     (["check", "{tmp}/long-by.toml"],
      f"Error: {{tmp}}/long-by.toml: prepared_by = '{'p' * 40}…': at most 200 characters", 2),
     (["import-history", "KVA-101", "{tmp}/nul.json"],
-     "Error: nul.json: entries[0].actor = 'q\\x00a': text without NUL characters", 2),
+     "Error: nul.json: entries[1].actor = 'q\\x00a': text without NUL characters", 2),
     (["import-history", "KVA-101", "{tmp}/nul.csv"],
      "Error: nul.csv line 2: actor = 'q\\x00a': text without NUL characters", 2),
     (["type", "import", "{tmp}/nul-type.toml"],
@@ -450,6 +454,31 @@ CASES = [
     (["vehicle", "add", "KVA 102\t", "--type", "KV-P4"],
      "Error: registration = 'KVA 102\\t': 1 to 40 letters, digits or '-' (single spaces "
      "between them allowed), starting with a letter or digit", 2),
+    (["check", "{tmp}/two-pilots.toml"],
+     "Error: {tmp}/two-pilots.toml: person[2].seat = 'pilot': a free seat: 'pilot' takes 1 "
+     "person and person[1] is already there. Two people cannot share one seat; put one in "
+     "another seat", 2),
+    # issue 13 item 15: late paperwork is accepted, but not a late weighing (it would drop the
+    # ELT installed on 2025-01-11) nor a change dated before the weighing (already in it)
+    (["weigh", "KVA-101", *P4_READINGS, "--date", WEIGHED, *R],
+     "Error: --date = '2025-01-10': a date on or after that of entry 2 (2025-01-11): a "
+     "weighing sets the empty state to what was measured, so it is not dated before changes "
+     "already recorded", 2),
+    (["install", "KVA-101", "radio", "--mass", "1 lb", "--arm", "100 in", "--date",
+      "2025-01-09", *R],
+     "Error: --date = '2025-01-09': a date on or after that of the weighing the empty state "
+     "starts from, entry 1 (2025-01-10): that weighing already measured the work done before "
+     "it", 2),
+    # issue 13 item 17: a pitched weighing needs its readings, its angle and the points' z
+    (["weigh", "KVA-101", *P4_READINGS, "--pitch", "8 deg", *R],
+     "Error: --pitched-reading = (missing): required with a pitched weighing: "
+     "--pitched-reading POINT=MASS for each weighing point, --pitch ANGLE (nose-up) and "
+     "--points-z LENGTH (the vertical arm of the weighing points)", 2),
+    (["weigh", "KVA-101", *P4_READINGS, "--pitched-reading", "nose=470 lb",
+      "--pitched-reading", "left main=576 lb", "--pitched-reading", "right main=582.5 lb",
+      "--pitch", "1 deg", "--points-z", "10 in", *R],
+     "Error: --pitch = 1: a pitch of 2° to 60°. Pitch the vehicle further; a small angle "
+     "gives a CG shift lost in the scale resolution", 2),
 ]
 
 

@@ -335,3 +335,17 @@ def test_help_of_ledger_commands_imports_no_heavy_library(argv):
     out = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True,
                          check=True)
     assert out.stdout.strip().splitlines()[-1] == "[]"
+
+
+def test_weigh_with_pitched_readings_records_the_cg_height(ready):
+    """issue 13 item 17: `weigh` takes a nose-up set of readings and records the vertical CG
+    (hand calculation and the core function are checked in tests/store/test_pitched_weighing)."""
+    from tests.store.test_pitched_weighing import _pitched_readings
+
+    pitched = [a for k, v in _pitched_readings().items() for a in ("--pitched-reading", f"{k}={v}")]
+    out = ok(ready("weigh", "KV-101", *A_READINGS, *pitched, "--pitch", "10 deg",
+                   "--points-z", "10 in", "--date", "2025-01-10", "--json"))
+    weighing, height = (doc["entry"] for doc in json.loads(out))
+    assert (weighing["seq"], weighing["kind"], height["seq"], height["kind"]) == (
+        1, "weighing", 2, "cg_height")
+    assert abs(height["after"]["cg_z_m"] - 40 * 0.0254) < 1e-9  # 40 in (NIST SP 811: in)

@@ -63,7 +63,7 @@ def test_check_exit_codes(ready):
     r = cli("check", d / "bad.toml")
     assert r.exit_code == 2
     assert r.stdout == ""
-    assert r.stderr == (f"Error: {d / 'bad.toml'}: person[0].seat = 'co-pilot': unknown seat; "
+    assert r.stderr == (f"Error: {d / 'bad.toml'}: person[1].seat = 'co-pilot': unknown seat; "
                         "type TS-1 has: pilot, rear\n")
     # The quick form, no file: the same plan from options.
     r = cli("check", "TS-101", "--person", "pilot=180", "--cargo", "baggage=40",

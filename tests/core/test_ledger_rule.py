@@ -15,6 +15,7 @@ from hypothesis import strategies as st
 
 from ledger.core.ledger_rule import (
     EmptyMassNotPositive,
+    EntryBeforeBaseline,
     EntryOutOfOrder,
     FirstEntryNotWeighing,
     Moments,
@@ -43,12 +44,35 @@ def test_the_first_entry_is_a_weighing():
     assert first.delta_mass_kg == 1000.0 and first.after.z_known is False
 
 
-def test_dates_stay_in_order_and_equal_dates_are_allowed():
+def test_late_paperwork_is_accepted_in_sequence_with_its_own_date():
+    """issue 13 item 15: an entry dated before the newest one was refused ("entries are kept
+    in date order"); a change is now accepted after it, in sequence, with its work date."""
+    state = _weighed()  # entry 1, weighed on DAY
+    later = apply_entry(state, "install", DAY + dt.timedelta(days=9),
+                        Moments(1.0, 1.0, 0.0, None)).after
+    late = apply_entry(later, "install", DAY + dt.timedelta(days=2),
+                       Moments(2.0, 4.0, 0.0, None), baseline_date=DAY)
+    assert (late.after.seq, late.after.entry_date) == (3, DAY + dt.timedelta(days=2))
+    assert (late.after.mass_kg, late.after.mx_kgm) == (1003.0, 2005.0)
+    # equal dates were always fine, and a late change on the weighing's own day too
+    apply_entry(later, "remove", DAY, Moments(-1.0, -1.0, 0.0, None), baseline_date=DAY)
+
+
+def test_a_late_measurement_or_a_change_before_the_weighing_is_refused():
+    """issue 13 item 15: a weighing sets the state to what was measured, so one dated before
+    a recorded change would drop it; a change dated before the weighing is already in it."""
     state = _weighed()
-    apply_entry(state, "install", DAY, Moments(1.0, 1.0, 0.0, None))
-    with pytest.raises(EntryOutOfOrder) as info:
-        apply_entry(state, "install", DAY - dt.timedelta(days=1), Moments(1.0, 1.0, 0.0, None))
-    assert (info.value.previous_seq, info.value.previous_date) == (1, DAY)
+    later = apply_entry(state, "install", DAY + dt.timedelta(days=9),
+                        Moments(1.0, 1.0, 0.0, None)).after
+    for kind in ("weighing", "cg_height"):
+        with pytest.raises(EntryOutOfOrder) as info:
+            apply_entry(later, kind, DAY + dt.timedelta(days=1), Moments(1.0, 1.0, 0.0, None))
+        assert (info.value.previous_seq, info.value.previous_date) == \
+            (2, DAY + dt.timedelta(days=9))
+    with pytest.raises(EntryBeforeBaseline) as before:
+        apply_entry(later, "install", DAY - dt.timedelta(days=1), Moments(1.0, 1.0, 0.0, None),
+                    baseline_date=DAY)
+    assert (before.value.baseline_seq, before.value.baseline_date) == (1, DAY)
 
 
 def test_the_empty_mass_stays_above_zero():

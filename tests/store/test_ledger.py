@@ -201,9 +201,10 @@ def unit_message(value, dimension, default_unit, field):
     (dict(mass="-3 lb", arm="10"), "--mass = '-3 lb': a mass of 0 or more"),
     (dict(mass="3 in", arm="10"), ("3 in", "mass", "lb", "--mass")),
     (dict(mass="3", arm="10", entry_date="2999-01-01"), None),
+    # issue 13 item 15: late paperwork is accepted, but not dated before the weighing
     (dict(mass="3", arm="10", entry_date=DAY0 - dt.timedelta(days=1)),
-     "--date = '2025-01-09': a date on or after that of entry 1 (2025-01-10): entries are kept "
-     "in date order. Record it with today's date and give the date of the work in --reason"),
+     "--date = '2025-01-09': a date on or after that of the weighing the empty state starts "
+     "from, entry 1 (2025-01-10): that weighing already measured the work done before it"),
     (dict(mass="3", arm="10", reason=" "), "--reason = ' ': required: a non-empty text"),
     (dict(mass="3", arm="10", shape="cone,radius=3"),
      "--shape = 'cone': one of point, box, cylinder, hollow_cylinder, disk, rod, sphere"),
@@ -633,9 +634,10 @@ BAD_CSV_ROWS = [
                                             "in kg, 0 or more"),
     ("install,2025-01-11,I,,radio,3,inf", "h.csv line 3: item_x_m = 'inf': the item's arm x in m"),
     ("install,2999-01-01,I,,radio,3,1.0", None),
-    ("install,2025-01-10,I,,radio,3,1.0", "h.csv line 3: entry_date = '2025-01-10': a date on or "
-                                          "after that of entry 2 (2025-01-11): entries are kept "
-                                          "in date order"),
+    ("install,2025-01-09,I,,radio,3,1.0", "h.csv line 3: entry_date = '2025-01-09': a date on or "
+                                          "after that of the weighing the empty state starts "
+                                          "from, entry 1 (2025-01-10): that weighing already "
+                                          "measured the work done before it"),
     ("remove,2025-01-11,I,,radio,,", "h.csv line 3: item = 'radio': an item installed before "
                                      "this entry and not removed since"),
     ("mend,2025-01-11,I,,radio,3,1.0", "h.csv line 3: kind = 'mend': one of weighing, install, "
@@ -761,3 +763,26 @@ def test_json_history_rows_are_numbered_by_the_line_they_start_on():
     text = ('{"format": "wbledger-history", "version": 1,\n"entries": [\n'
             '{"kind": "weighing"},\n\n{"kind":\n "install"}, {"kind": "remove"}\n]}\n')
     assert [line for line, _ in transfer.parse_history(text, "json")] == [3, 5, 6]
+
+
+def test_late_paperwork_is_kept_in_sequence_and_as_of_reads_a_stored_state(fleet):
+    """issue 13 item 15: an entry dated before the newest one was refused. It is now recorded
+    after it, with its own date; ``as_of`` reads the ledger up to the first entry dated after
+    that day, so every state it gives is one the ledger stored (before, as of D1 gave entry
+    3's running state, which includes the rack installed on D2)."""
+    weigh_a(fleet, "KV-101")                                        # entry 1, DAY0
+    install(fleet, "KV-101", "rack", "10 lb", "100 in", entry_date=D2)  # entry 2
+    install(fleet, "KV-101", "lamp", "1 lb", "50 in", entry_date=D1)    # entry 3, late
+    with session_scope(fleet) as s:
+        assert [(e.seq, e.entry_date) for e in entries.entries_of(s, "KV-101")] == [
+            (1, DAY0), (2, D2), (3, D1)]
+        assert verify_vehicle(s, "KV-101").ok
+        assert entries.current_empty(s, "KV-101").seq == 3
+        assert entries.current_empty(s, "KV-101", as_of=D1).seq == 1
+        assert [e.seq for e in entries.entries_of(s, "KV-101", as_of=D1)] == [1]
+        assert entries.installed_items(s, "KV-101", as_of=D1) == []
+        assert [i.name for i in entries.installed_items(s, "KV-101", as_of=D2)] == [
+            "lamp", "rack"]
+        weighed = entries.current_empty(s, "KV-101", as_of=DAY0)
+        now = entries.current_empty(s, "KV-101")
+    assert_close(now.mass_kg - weighed.mass_kg, 11 * LB, unit="kg", rtol=1e-12)

@@ -85,6 +85,9 @@ def _append_every_kind(engine) -> None:
         # ... and is lost again through one without.
         entries.install_item(s, REG, "bag", mass="2 lb", arm="130 in", actor="I",
                              reason="fit", entry_date=D[4])
+        # Late paperwork (issue 13 item 15): work of D[3] recorded after entries of D[4].
+        entries.install_item(s, REG, "logbook", mass="1 lb", arm="20 in", vert_arm="5 in",
+                             actor="I", reason="late paperwork", entry_date=D[3])
     # A second weighing starts a new baseline; a removal after it keeps that baseline.
     weigh_a(engine, REG, day=D[5], readings={"nose": "1720 lb", "left main": "2570 lb",
                                              "right main": "2575.5 lb"})
@@ -129,8 +132,9 @@ def test_append_and_bulk_import_store_the_same_rows(engine, second_engine):
     appended = _rows(engine)
     kinds = {r["kind"] for r in appended}
     assert kinds == {"weighing", "install", "remove", "correction", "cg_height"}
-    assert [r["z_known"] for r in appended] == [0, 0, 0, 0, 0, 0, 0, 1, 1, 0, 0, 0]
-    assert [r["baseline_seq"] for r in appended] == [1] * 10 + [11, 11]
+    assert [r["z_known"] for r in appended] == [0, 0, 0, 0, 0, 0, 0, 1, 1, 0, 0, 0, 0]
+    assert [r["baseline_seq"] for r in appended] == [1] * 11 + [12, 12]
+    assert appended[10]["entry_date"] < appended[9]["entry_date"]  # the late entry
 
     records = [(k + 1, _as_typed(r)) for k, r in enumerate(appended)]
     assert not any(c in rec for _, rec in records for c in
@@ -157,6 +161,9 @@ def test_bulk_import_then_append_continues_alike(engine, second_engine):
         transfer.import_entries(s, REG, head, source="typed")
         entries.install_item(s, REG, "bag", mass="2 lb", arm="130 in", actor="I",
                              reason="fit", entry_date=D[4])
+        # Late paperwork (issue 13 item 15): work of D[3] recorded after entries of D[4].
+        entries.install_item(s, REG, "logbook", mass="1 lb", arm="20 in", vert_arm="5 in",
+                             actor="I", reason="late paperwork", entry_date=D[3])
         entry = entries.get_entry(s, REG, 10)
     want = appended[9]
     for col in ("delta_mass_kg", "delta_mx_kgm", "delta_my_kgm", "delta_mz_kgm",

@@ -40,15 +40,15 @@ BAD_FILES = [
     ('arm_outside_x_range', TypeDataError,
      "station['baggage'].x = 95: expected an arm within x_range (82 in to 94 in)"),
     ('arm_table_ragged', TypeDataError,
-     "tank['main'].arm_table[1].y = (missing): expected y in every row of arm_table or in none"),
+     "tank['main'].arm_table[2].y = (missing): expected y in every row of arm_table or in none"),
     ('arm_table_short', TypeDataError,
-     "tank['main'].arm_table[1].quantity = 15: expected at least the capacity (20 USgal); the "
+     "tank['main'].arm_table[2].quantity = 15: expected at least the capacity (20 USgal); the "
      "table must cover the tank from unusable to capacity"),
     ('arm_table_unsorted', TypeDataError,
-     "tank['main'].arm_table[2].quantity = 8: expected more than the row before (12 USgal); rows "
+     "tank['main'].arm_table[3].quantity = 8: expected more than the row before (12 USgal); rows "
      "must be in strictly increasing quantity"),
     ('axle_group_unknown_axle', TypeDataError,
-     "axle_group['rear tandem'].axles[1] = 'rear 3': expected one of the axles: front, rear 1, "
+     "axle_group['rear tandem'].axles[2] = 'rear 3': expected one of the axles: front, rear 1, "
      "rear 2"),
     ('axles_on_airplane', TypeDataError,
      "axle = {'name': 'main', 'x': 58.0, 'rating': 2000}: allowed only for kind ground_vehicle; an "
@@ -68,12 +68,12 @@ BAD_FILES = [
      "tank['main'].density = 6: a unit is required; density units: mass/volume such as kg/L, "
      "lb/USgal (masses: kg, g, t, lb, slug; volumes: m3, L, USgal, impgal, ft3, in3)"),
     ('disables_unknown_station', TypeDataError,
-     "configuration['seats-out'].disables_stations[0] = 'rear left': expected a station name: "
+     "configuration['seats-out'].disables_stations[1] = 'rear left': expected a station name: "
      "pilot, baggage"),
     ('display_unit_wrong', UnitError,
      "units.mass = 'in': 'in' is a unit of length, not of mass; mass units: kg, g, t, lb, slug"),
     ('duplicate_station', TypeDataError,
-     "station[1].name = 'Pilot': already used by station[0]; station and tank names must differ "
+     "station[2].name = 'Pilot': already used by station[1]; station and tank names must differ "
      "(ignoring case)"),
     ('duplicate_toml_key', TypeDataError,
      "line 25 = 'x = 38.0': not valid TOML: Cannot overwrite a value (column 9)"),
@@ -84,7 +84,7 @@ BAD_FILES = [
      "polygon; edge 0 (35, 1200)-(47, 2000) and edge 2 (35, 2000)-(47, 1200) cross at (41, 1600). "
      "List the points in order round the boundary"),
     ('envelope_point_unit', UnitError,
-     "envelope['normal'].points[3][1] = '1200 in': 'in' is a unit of length, not of mass; mass "
+     "envelope['normal'].points[4][2] = '1200 in': 'in' is a unit of length, not of mass; mass "
      "units: kg, g, t, lb, slug"),
     ('envelope_two_points', EnvelopeError,
      "envelope['normal'].points = [(35, 1200), (47, 2000)]: at least 3 distinct points; got 2 (a "
@@ -142,14 +142,14 @@ BAD_FILES = [
     ('persons_on_cargo', TypeDataError,
      "station['baggage'].persons = 2: allowed only on crew and passenger stations"),
     ('point_not_pair', TypeDataError,
-     "envelope['normal'].points[2] = [47.0, 2000, 5]: expected a point [cg, mass]"),
+     "envelope['normal'].points[3] = [47.0, 2000, 5]: expected a point [cg, mass]"),
     ('shape_bad_radius', TypeDataError,
      "configuration['pod'].item['pod'].shape.inner_radius = 9: expected less than the radius "
      "(8 in)"),
     ('station_not_table', TypeDataError,
      "station = 'pilot': expected an array of tables [[station]], got a string"),
     ('station_tank_same_name', TypeDataError,
-     "tank[0].name = 'baggage': already used by station[1]; station and tank names must differ "
+     "tank[1].name = 'baggage': already used by station[2]; station and tank names must differ "
      "(ignoring case)"),
     ('syntax_error', TypeDataError,
      "line 18 = 'max_takeoff 2000': not valid TOML: Expected '=' after a key in a key/value pair "
@@ -409,7 +409,7 @@ def test_to_dict_round_trip_and_json():
     (lambda d: d["limits"].update(max_takeoff_kg="heavy"),
      "stored type.limits.max_takeoff_kg = 'heavy': expected a finite number in the stored type"),
     (lambda d: d["stations"][0].update(colour="red"),
-     "stored type.stations[0].colour = 'red': expected no such key in the stored type"),
+     "stored type.stations[1].colour = 'red': expected no such key in the stored type"),
     (lambda d: d.pop("datum"),
      "stored type.datum = (missing): expected a value in the stored type"),
 ])

@@ -137,23 +137,23 @@ def test_quick_options_and_merging_over_a_file(vt):
 
 BAD = {
     "unknown seat": ('[[person]]\nseat = "co-pilot"\nmass = 170\n',
-                     "plan.toml: person[0].seat = 'co-pilot': unknown seat; type TEST-PLAN has: "
+                     "plan.toml: person[1].seat = 'co-pilot': unknown seat; type TEST-PLAN has: "
                      "pilot, front passenger, rear bench"),
     "unknown compartment": ('[[cargo]]\nstation = "nose locker"\nmass = 20\n',
-                            "plan.toml: cargo[0].station = 'nose locker': unknown cargo, "
+                            "plan.toml: cargo[1].station = 'nose locker': unknown cargo, "
                             "equipment or ballast station; type TEST-PLAN has: baggage"),
     "two people in one seat": (
         '[[person]]\nseat = "pilot"\nmass = 170\n[[person]]\nseat = "pilot"\nmass = 150\n',
-        "plan.toml: person[1].seat = 'pilot': a free seat: 'pilot' takes 1 person and "
-        "person[0] is already there. Two people cannot share one seat; put one in another "
+        "plan.toml: person[2].seat = 'pilot': a free seat: 'pilot' takes 1 person and "
+        "person[1] is already there. Two people cannot share one seat; put one in another "
         "seat"),
     "bench over its persons": (
         '[[person]]\nseat = "rear bench"\nmass = 170\n' * 3,
-        "plan.toml: person[2].seat = 'rear bench': a free seat: 'rear bench' takes 2 persons "
-        "and person[0] and person[1] are already there. Put the others in another seat"),
+        "plan.toml: person[3].seat = 'rear bench': a free seat: 'rear bench' takes 2 persons "
+        "and person[1] and person[2] are already there. Put the others in another seat"),
     "person in a compartment": (
         '[[person]]\nseat = "baggage"\nmass = 170\n',
-        "plan.toml: person[0].seat = 'baggage': a seat; 'baggage' is a cargo station, so put "
+        "plan.toml: person[1].seat = 'baggage': a seat; 'baggage' is a cargo station, so put "
         "it under [[cargo]]. Seats of type TEST-PLAN: pilot, front passenger, rear bench"),
     "fuel over tank capacity": (
         '[fuel.tanks]\nleft = "26 USgal"\n',
@@ -171,13 +171,13 @@ BAD = {
         "usable fuel on board in the fuel tanks, 40 USgal. Add fuel or reduce the taxi or "
         "trip fuel"),
     "non-finite mass": ('[[person]]\nseat = "pilot"\nmass = nan\n',
-                        "plan.toml: person[0].mass = nan: not a finite number; a mass must be "
+                        "plan.toml: person[1].mass = nan: not a finite number; a mass must be "
                         "a finite number"),
     "infinite mass text": ('[[person]]\nseat = "pilot"\nmass = "inf lb"\n',
-                           "plan.toml: person[0].mass = 'inf lb': not a finite number; a mass "
+                           "plan.toml: person[1].mass = 'inf lb': not a finite number; a mass "
                            "must be a finite number"),
     "negative mass": ('[[cargo]]\nstation = "baggage"\nmass = "-5 lb"\n',
-                      "plan.toml: cargo[0].mass = '-5 lb': expected a mass of 0 or more"),
+                      "plan.toml: cargo[1].mass = '-5 lb': expected a mass of 0 or more"),
     "unknown tank": ('[fuel.tanks]\ncenter = 10\n',
                      "plan.toml: fuel.tanks = 'center': unknown tank; type TEST-PLAN has: "
                      "left, right, aux"),
@@ -187,7 +187,7 @@ BAD = {
         "available: faa-light-170lb, faa-ac120-27e-summer, faa-ac120-27e-winter, easa-crew"),
     "no mass with actual masses": (
         '[[person]]\nseat = "pilot"\n',
-        "plan.toml: person[0].mass = (missing): required: the person's actual mass, since "
+        "plan.toml: person[1].mass = (missing): required: the person's actual mass, since "
         "standard_masses is 'actual'. Or name a standard mass set with standard_masses"),
     "misspelt key": ('vehicel = "x"\n',
                      "plan.toml: vehicel = 'x': unknown key; allowed here: plan_format, vehicle, "
@@ -199,7 +199,7 @@ BAD = {
                          "Write USgal (3.785411784 L) or impgal (4.54609 L)"),
     "cargo arm outside the compartment": (
         '[[cargo]]\nstation = "baggage"\nmass = 10\nx = 120\n',
-        "plan.toml: cargo[0].x = 120: an arm within station 'baggage', from 82 in to 108 in"),
+        "plan.toml: cargo[1].x = 120: an arm within station 'baggage', from 82 in to 108 in"),
 }
 
 

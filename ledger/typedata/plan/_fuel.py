@@ -7,6 +7,7 @@ from collections.abc import Mapping, Sequence
 from functools import partial
 
 from ledger import units as U
+from ledger.bounds import item_field
 from ledger.errors import InputError, NotFoundError
 from ledger.typedata._messages import _MISSING, _disp
 from ledger.typedata.plan.model import BURN_PROPORTIONAL, BURN_TANK_ORDER, TankLoad
@@ -203,7 +204,7 @@ class _FuelChecker:
         order: list[str] = []
         names = [t.name for t in fuel_tanks]
         for i, name in enumerate(value):
-            f = f"fuel.burn[{i}]"
+            f = item_field("fuel.burn", i)
             match = [t.name for t in fuel_tanks
                      if isinstance(name, str) and t.name.casefold() == name.strip().casefold()]
             if not match:

@@ -7,7 +7,7 @@ from pathlib import Path
 from typing import Any
 
 from ledger import units as U
-from ledger.bounds import TEXT_MAX, shown
+from ledger.bounds import TEXT_MAX, item_field, shown
 from ledger.errors import InputError, NotFoundError, PlanError
 from ledger.typedata._messages import _MISSING, _show
 from ledger.typedata.plan._fuel import _FuelChecker, _q
@@ -184,7 +184,7 @@ class _Checker(_FuelChecker):
         out: list[Person] = []
         where: dict[str, list[str]] = {}
         for i, raw in enumerate(self.tables("person")):
-            path = f"person[{i}]"
+            path = item_field("person", i)
             self.keys(raw, path, _PERSON_KEYS)
             st = self.station(raw.get("seat"), f"{path}.seat", raw, seat=True,
                               configuration=configuration)
@@ -233,7 +233,7 @@ class _Checker(_FuelChecker):
     def cargo(self, configuration) -> list[CargoLoad]:
         out: list[CargoLoad] = []
         for i, raw in enumerate(self.tables("cargo")):
-            path = f"cargo[{i}]"
+            path = item_field("cargo", i)
             self.keys(raw, path, _CARGO_KEYS)
             st = self.station(raw.get("station"), f"{path}.station", raw, seat=False,
                               configuration=configuration)
