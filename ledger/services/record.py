@@ -100,6 +100,7 @@ class RecordEntry:
     scales: str | None = None
     level: str | None = None
     note: str | None = None
+    entry_hash: str = ""
 
     @property
     def added(self) -> bool | None:
@@ -174,7 +175,7 @@ def _line(e: Entry, u: RecordUnits) -> RecordEntry:
         empty_mass=u.mass_of(e.empty_mass_kg), empty_moment=u.index(e.empty_mx_kgm),
         cg=u.length_of(e.cg_x_m), empty_mass_kg=e.empty_mass_kg, empty_mx_kgm=e.empty_mx_kgm,
         cg_x_m=e.cg_x_m, readings=_readings(e, u), scales=detail.get("scales"),
-        level=detail.get("level"), note=detail.get("note"))
+        level=detail.get("level"), note=detail.get("note"), entry_hash=e.entry_hash)
 
 
 def maintenance_record(engine: Engine, registration: str, *,
