@@ -203,7 +203,8 @@ def maintenance_record(engine: Engine, registration: str, *,
         items = installed_items(session, key.registration, as_of=as_of)
     equipment = tuple(EquipmentItem(i.name, u.mass_of(i.mass_kg), u.length_of(i.x_m),
                                     u.length_of(i.y_m or 0.0), u.index(i.mass_kg * i.x_m),
-                                    i.seq, i.entry_date.isoformat()) for i in items)
+                                    i.seq, i.entry_date.isoformat())
+                      for i in sorted(items, key=lambda i: i.seq))  # in the order installed
     return MaintenanceRecord(
         registration=key.registration, type_name=info.name, type_revision=info.revision,
         type_title=info.vtype.title, serial=vehicle.serial, units=u,

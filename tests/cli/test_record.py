@@ -176,10 +176,14 @@ def test_record_is_refused_on_a_ledger_that_does_not_verify(kept, tmp_path):
     assert not pdf.exists()
 
 
-def test_record_of_an_unknown_vehicle_is_one_line(kept):
+def test_record_of_an_unknown_vehicle_or_paper_is_one_line(kept, tmp_path):
     r = kept("record", "NOPE-1")
     assert (r.exit_code, r.stdout) == (2, "")
     assert r.stderr.startswith("Error: no vehicle 'NOPE-1'. Known vehicles: KV-101")
+    r = kept("record", "KV-101", "--pdf", str(tmp_path / "r.pdf"), "--paper", "A3")
+    assert (r.exit_code, r.stdout, r.stderr) == (
+        2, "", "Error: --paper = 'A3': one of A4, Letter\n")
+    assert not (tmp_path / "r.pdf").exists()
 
 
 # --- export --units (issue 13 item 19) ------------------------------------------------------
