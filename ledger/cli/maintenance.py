@@ -197,14 +197,19 @@ def export(ctx: typer.Context, registration: str = REG_ARG,
            fmt: str = typer.Option("csv", "--format", metavar="csv|json",
                                    help="File format."),
            output: Path = typer.Option(None, "-o", "--output", metavar="FILE",
-                                       help="Write to FILE (default: standard output).")) -> None:
-    """Export a vehicle's whole ledger, exactly (values, dates and hashes)."""
+                                       help="Write to FILE (default: standard output)."),
+           units: str = typer.Option("si", "--units", metavar="si|display",
+                                     help="si: every stored column exactly, for import "
+                                          "(default); display: the type's units at the "
+                                          "precision people read, not for import.")) -> None:
+    """Export a vehicle's whole ledger, exactly (values, dates and hashes), or in display
+    units."""
     from ledger.files import check_output_path, write_output
     from ledger.services.history import export as export_history
 
     if output is not None:
         check_output_path(output, "--output")
-    text = export_history(common.state(ctx).engine(), registration, fmt)
+    text = export_history(common.state(ctx).engine(), registration, fmt, units=units)
     if output is None:
         typer.echo(text, nl=False)
     else:

@@ -33,10 +33,12 @@ def record(ctx: typer.Context,
     from ledger.report.record import render_record
     from ledger.services.record import maintenance_record
 
-    if pdf is not None:
+    if pdf is not None:  # a bad path or paper is refused before anything is printed
         from ledger.files import check_output_path
+        from ledger.report.record_pdf import check_paper
 
         check_output_path(pdf, "--pdf")
+        check_paper(paper)
     rec = maintenance_record(common.state(ctx).engine(), registration, as_of=as_of)
     common.emit(rec.to_dict(), lambda _doc: render_record(rec), as_json)
     if pdf is not None:

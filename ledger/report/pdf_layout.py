@@ -244,6 +244,27 @@ class Layout:
         self.y += h + 0.08
 
 
+def signature_block(lay: Layout, roles, note: str) -> None:
+    """A "Signatures" section kept together on one page: ``note`` in small italics, then per
+    role a line for the name and signature and one for the date (the printed sheet and the
+    printed record sign alike)."""
+    block = 0.4 + 0.55 * len(roles)
+    lay.need(block)
+    lay.section("Signatures", keep=block)
+    lay.paragraph(note, 7.0, color=GREY, style="italic")
+    lay.y += 0.1
+    name_x0, date_x0 = lay.left + 1.35, lay.right - 1.5
+    for role in roles:
+        lay.y += 0.38
+        lay.text(lay.left, lay.y - 0.03, role, 9.0, "bold")
+        lay.rule(lay.y, name_x0, date_x0 - 0.65, lw=0.7, color=INK)
+        lay.text(date_x0 - 0.5, lay.y - 0.03, "Date", 9.0, "bold")
+        lay.rule(lay.y, date_x0, lay.right, lw=0.7, color=INK)
+        lay.text(name_x0, lay.y + 0.12, "name and signature", 6.5, color=GREY)
+        lay.y += 0.15
+    lay.y += 0.1
+
+
 def draw_page(fig, ops: list[Op], page_w: float, page_h: float) -> None:
     """Draw the operations of one page onto a figure ``page_w`` × ``page_h`` inches."""
     from matplotlib.patches import Rectangle

@@ -167,8 +167,10 @@ def _print_table(con, t: TableData) -> None:
     con.print()
     con.print(Text(t.title, style="bold"))
     table = Table(box=box.SIMPLE_HEAD, pad_edge=False, padding=(0, 1, 0, 0), show_edge=False)
+    # The one column that may fold: the running record's entry, else the first (a name).
+    fold = 2 if t.headers[:3] == ["#", "Date", "Entry"] else 0
     for i, h in enumerate(t.headers):
-        wide = h == "Entry" if "Entry" in t.headers else i == 0
+        wide = i == fold
         table.add_column(h, justify="right" if i in t.numeric else "left",
                          no_wrap=not wide, overflow="fold" if wide else "ellipsis",
                          min_width=12 if wide else None)

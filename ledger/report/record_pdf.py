@@ -26,13 +26,12 @@ from ledger.report.pdf_layout import (
     Measure,
     draw_page,
     figure_line,
+    signature_block,
 )
 from ledger.report.record import SIGNATURE_ROLES, current_line, record_heading, record_tables
+from ledger.report.sheet_pdf import PAPER_SIZES  # the loading sheet's pages, one home
 
-__all__ = ["PAPER_SIZES", "write_record_pdf"]
-
-PAPER_SIZES = {"A4": (8.27, 11.69), "Letter": (8.5, 11.0)}
-"""Portrait page sizes in inches (as the loading sheet's)."""
+__all__ = ["check_paper", "write_record_pdf"]
 
 TITLE = "Weight and balance record"
 
@@ -56,26 +55,9 @@ def _layout(rec, page_w: float, page_h: float) -> Layout:
         lay.table(t)
     lay.y += 0.1
     lay.paragraph(current_line(rec), 9.0, "bold")
-    _signatures(lay)
+    signature_block(lay, SIGNATURE_ROLES, "Sign only after checking each entry against its "
+                    "work order and the approved data.")
     return lay
-
-
-def _signatures(lay: Layout) -> None:
-    """Signature lines, kept together on one page."""
-    block = 0.4 + 0.55 * len(SIGNATURE_ROLES)
-    lay.section("Signatures", keep=block)
-    lay.paragraph("Sign only after checking each entry against its work order and the "
-                  "approved data.", 7.0, color=GREY, style="italic")
-    lay.y += 0.1
-    name_x0, date_x0 = lay.left + 1.35, lay.right - 1.5
-    for role in SIGNATURE_ROLES:
-        lay.y += 0.38
-        lay.text(lay.left, lay.y - 0.03, role, 9.0, "bold")
-        lay.rule(lay.y, name_x0, date_x0 - 0.65, lw=0.7, color=INK)
-        lay.text(date_x0 - 0.5, lay.y - 0.03, "Date", 9.0, "bold")
-        lay.rule(lay.y, date_x0, lay.right, lw=0.7, color=INK)
-        lay.text(name_x0, lay.y + 0.12, "name and signature", 6.5, color=GREY)
-        lay.y += 0.15
 
 
 def _footer(fig, rec, page_w: float, page_h: float, page_text: str) -> None:
@@ -96,6 +78,15 @@ def _footer(fig, rec, page_w: float, page_h: float, page_text: str) -> None:
     for k, line in enumerate(Measure().wrap(CAUTION_SHORT, 6.5, width, "bold")):
         at(MARGIN / page_w, 0.42 + k * 0.11, line, fontsize=6.5, color=CAUTION_EDGE,
            fontweight="bold")
+
+
+def check_paper(paper: str) -> tuple[float, float]:
+    """The page size of ``paper`` in inches (InputError naming ``--paper`` if unknown)."""
+    if paper not in PAPER_SIZES:
+        from ledger.errors import InputError
+
+        raise InputError("--paper", paper, "one of " + ", ".join(PAPER_SIZES))
+    return PAPER_SIZES[paper]
 
 
 def write_record_pdf(rec, path, *, paper: str = "A4") -> Path:
@@ -120,11 +111,7 @@ def write_record_pdf(rec, path, *, paper: str = "A4") -> Path:
     from matplotlib.backends.backend_pdf import PdfPages
     from matplotlib.figure import Figure
 
-    if paper not in PAPER_SIZES:
-        from ledger.errors import InputError
-
-        raise InputError("--paper", paper, "one of " + ", ".join(PAPER_SIZES))
-    page_w, page_h = PAPER_SIZES[paper]
+    page_w, page_h = check_paper(paper)
     path = Path(path)
     rc = {"pdf.fonttype": 42, "text.parse_math": False, "font.family": SANS,
           "axes.unicode_minus": True}

@@ -100,6 +100,7 @@ class RecordEntry:
     scales: str | None = None
     level: str | None = None
     note: str | None = None
+    entry_hash: str = ""
 
     @property
     def added(self) -> bool | None:
@@ -174,7 +175,7 @@ def _line(e: Entry, u: RecordUnits) -> RecordEntry:
         empty_mass=u.mass_of(e.empty_mass_kg), empty_moment=u.index(e.empty_mx_kgm),
         cg=u.length_of(e.cg_x_m), empty_mass_kg=e.empty_mass_kg, empty_mx_kgm=e.empty_mx_kgm,
         cg_x_m=e.cg_x_m, readings=_readings(e, u), scales=detail.get("scales"),
-        level=detail.get("level"), note=detail.get("note"))
+        level=detail.get("level"), note=detail.get("note"), entry_hash=e.entry_hash)
 
 
 def maintenance_record(engine: Engine, registration: str, *,
@@ -202,7 +203,8 @@ def maintenance_record(engine: Engine, registration: str, *,
         items = installed_items(session, key.registration, as_of=as_of)
     equipment = tuple(EquipmentItem(i.name, u.mass_of(i.mass_kg), u.length_of(i.x_m),
                                     u.length_of(i.y_m or 0.0), u.index(i.mass_kg * i.x_m),
-                                    i.seq, i.entry_date.isoformat()) for i in items)
+                                    i.seq, i.entry_date.isoformat())
+                      for i in sorted(items, key=lambda i: i.seq))  # in the order installed
     return MaintenanceRecord(
         registration=key.registration, type_name=info.name, type_revision=info.revision,
         type_title=info.vtype.title, serial=vehicle.serial, units=u,

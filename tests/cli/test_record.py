@@ -176,7 +176,75 @@ def test_record_is_refused_on_a_ledger_that_does_not_verify(kept, tmp_path):
     assert not pdf.exists()
 
 
-def test_record_of_an_unknown_vehicle_is_one_line(kept):
+def test_record_of_an_unknown_vehicle_or_paper_is_one_line(kept, tmp_path):
     r = kept("record", "NOPE-1")
     assert (r.exit_code, r.stdout) == (2, "")
     assert r.stderr.startswith("Error: no vehicle 'NOPE-1'. Known vehicles: KV-101")
+    r = kept("record", "KV-101", "--pdf", str(tmp_path / "r.pdf"), "--paper", "A3")
+    assert (r.exit_code, r.stdout, r.stderr) == (
+        2, "", "Error: --paper = 'A3': one of A4, Letter\n")
+    assert not (tmp_path / "r.pdf").exists()
+
+
+# --- export --units (issue 13 item 19) ------------------------------------------------------
+
+def test_export_in_display_units_has_the_record_precision(kept):
+    """issue 13 item 19: `export --units display` writes the type's units at the precision
+    people read (before: only SI floats with up to 17 digits); figures as by hand above."""
+    r = kept("export", "KV-101", "--units", "display")
+    assert r.exit_code == 0, r.stderr
+    rows = [line.split(",") for line in r.stdout.splitlines()]
+    assert rows[0][8:15] == ["item_mass_lb", "item_x_in", "delta_mass_lb",
+                             "delta_moment_lbin_per_1000", "empty_mass_lb",
+                             "empty_moment_lbin_per_1000", "cg_x_in"]
+    figures = [row[8:15] for row in rows[1:]]
+    assert figures == [["", "", "", "", "6860.0", "548.800", "80.00"],
+                       ["140.0", "150.00", "+140.0", "+21.000", "7000.0", "569.800", "81.40"],
+                       ["2.0", "80.00", "+2.0", "+0.160", "7002.0", "569.960", "81.40"],
+                       ["140.0", "150.00", "-140.0", "-21.000", "6862.0", "548.960", "80.00"]]
+    assert [row[5:8] for row in rows[1:3]] == [["annual weighing", "WO-1", "W. Eigher"],
+                                               ["cargo mod", "WO-7", "T. Echnician"]]
+    doc = json.loads(kept("export", "KV-101", "--units", "display", "--format", "json").stdout)
+    assert doc["units"] == {"mass": "lb", "length": "in", "moment": "lb*in/1000"}
+    assert [(e["empty_mass_lb"], e["empty_moment_lbin_per_1000"], e["cg_x_in"])
+            for e in doc["entries"]] == [(6860.0, 548.8, 80.0), (7000.0, 569.8, 81.4),
+                                         (7002.0, 569.96, 81.4), (6862.0, 548.96, 80.0)]
+
+
+def test_default_export_stays_exact_and_imports_back(kept, tmp_path):
+    """issue 13 item 19: the default export is still the lossless SI form: imported into a new
+    ledger it reproduces every value and hash, and exporting again gives the same text. A
+    display export is refused by import (it is for reading), nothing written."""
+    for fmt in ("json", "csv"):
+        exact = kept("export", "KV-101", "--format", fmt).stdout
+        assert kept("export", "KV-101", "--format", fmt, "--units", "si").stdout == exact
+        copy = f"sqlite:///{tmp_path / f'copy-{fmt}.sqlite3'}"
+        assert kept("--db", copy, "init").exit_code == 0
+        for path in write_types(tmp_path):
+            assert kept("--db", copy, "type", "import", str(path)).exit_code == 0
+        assert kept("--db", copy, "vehicle", "add", "KV-101", "--type", "TT-A1").exit_code == 0
+        file = tmp_path / f"kv101.{fmt}"
+        file.write_text(exact, encoding="utf-8")
+        r = kept("--db", copy, "import-history", "KV-101", str(file))
+        assert r.exit_code == 0, r.stderr
+        assert kept("--db", copy, "export", "KV-101", "--format", fmt).stdout == exact
+    display = tmp_path / "display.csv"
+    display.write_text(kept("export", "KV-101", "--units", "display").stdout, encoding="utf-8")
+    from ledger.store.db import make_engine
+
+    eng = make_engine(kept.db_url)
+    try:
+        assert kept("vehicle", "add", "KV-102", "--type", "TT-A1").exit_code == 0
+        before = snapshot(eng)
+        r = kept("import-history", "KV-102", str(display))
+        assert (r.exit_code, r.stdout) == (2, "")
+        assert r.stderr.startswith("Error: display.csv")
+        assert snapshot(eng) == before
+    finally:
+        eng.dispose()
+
+
+def test_export_units_is_checked(kept):
+    r = kept("export", "KV-101", "--units", "imperial")
+    assert (r.exit_code, r.stdout, r.stderr) == (
+        2, "", "Error: --units = 'imperial': si or display\n")
