@@ -167,6 +167,7 @@ def test_version_comes_from_the_installed_metadata():
 def test_shell_completion_is_offered_and_completes():
     r = CliRunner().invoke(app, ["--help"], terminal_width=100)
     assert "--install-completion" in r.stdout and "--show-completion" in r.stdout
+    assert "Shell completion: run `wbledger --install-completion` once" in r.stdout
     script = subprocess.run([sys.executable, "-m", "ledger", "--show-completion", "bash"],
                             capture_output=True, text=True, check=True).stdout
     assert "_WBLEDGER_COMPLETE=complete_bash" in script
