@@ -435,6 +435,14 @@ CASES = [
      "Error: --db = '': not a database URL; use sqlite:///PATH or "
      "postgresql+psycopg://USER@HOST/DBNAME", 2),
     (["--bogus"], "Error: No such option: --bogus (see `wbledger --help`)", 2),
+    # issue 13 item 13: one name per concept (inertia's --config is --configuration, as in
+    # check and sheet), and options a command cannot do without are declared required.
+    (["inertia", "KVA-101", "--config", "x"], "Error: No such option: --config (Possible "
+     "options: --configuration) (see `wbledger inertia --help`)", 2),
+    (["remove", "KVA-101", "ELT"],
+     "Error: Missing option '--reason' (see `wbledger remove --help`)", 2),
+    (["install", "KVA-101", "radio", "--mass", "3 lb", *R],
+     "Error: Missing option '--arm' (see `wbledger install --help`)", 2),
 ]
 
 
