@@ -479,6 +479,14 @@ CASES = [
       "--pitch", "1 deg", "--points-z", "10 in", *R],
      "Error: --pitch = 1: a pitch of 2° to 60°. Pitch the vehicle further; a small angle "
      "gives a CG shift lost in the scale resolution", 2),
+    # issue 13 item 13: one name per concept (inertia's --config is --configuration, as in
+    # check and sheet), and options a command cannot do without are declared required.
+    (["inertia", "KVA-101", "--config", "x"], "Error: No such option: --config (Possible "
+     "options: --configuration) (see `wbledger inertia --help`)", 2),
+    (["remove", "KVA-101", "ELT"],
+     "Error: Missing option '--reason' (see `wbledger remove --help`)", 2),
+    (["install", "KVA-101", "radio", "--mass", "3 lb", *R],
+     "Error: Missing option '--arm' (see `wbledger install --help`)", 2),
 ]
 
 

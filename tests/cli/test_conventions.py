@@ -167,8 +167,11 @@ def test_version_comes_from_the_installed_metadata():
 def test_shell_completion_is_offered_and_completes():
     r = CliRunner().invoke(app, ["--help"], terminal_width=100)
     assert "--install-completion" in r.stdout and "--show-completion" in r.stdout
+    assert "Shell completion: run `wbledger --install-completion` once" in r.stdout
+    # the shell named, not detected from the processes above the test (there may be none)
+    named = {**os.environ, "_TYPER_COMPLETE_TEST_DISABLE_SHELL_DETECTION": "1"}
     script = subprocess.run([sys.executable, "-m", "ledger", "--show-completion", "bash"],
-                            capture_output=True, text=True, check=True).stdout
+                            env=named, capture_output=True, text=True, check=True).stdout
     assert "_WBLEDGER_COMPLETE=complete_bash" in script
     env = {**os.environ, "_WBLEDGER_COMPLETE": "complete_bash",
            "COMP_WORDS": "wbledger sheet prepare plan.toml --conf", "COMP_CWORD": "4"}

@@ -35,7 +35,8 @@ def run(sqlite_url, monkeypatch, tmp_path):
 
     invoke("init")
     invoke("type", "import", *map(str, write_types(tmp_path)))
-    invoke("vehicle", "add", "KV-101", "--type", "TT-A1", "--note", "hangar [b]3[/b]\x1b[2J")
+    invoke("vehicle", "add", "KV-101", "--type", "TT-A1", "--note",
+           "hangar [b]3[/b] :warning:\x1b[2J")
     invoke("weigh", "KV-101", *READINGS, "--date", "2025-01-10", "--by", SIGNER)
     invoke("install", "KV-101", MARKUP, "--mass", "2 lb", "--arm", "80", "--date",
            "2025-02-01", "--reason", "fit [i]it[/i]", "--by", SIGNER)
@@ -54,7 +55,7 @@ def test_vehicle_show_prints_names_as_text(run):
     _no_control(out)
     assert f"  {MARKUP}: 2.0 lb at 80.00 in" in out
     assert "  lamp\\x1b[31m red: 1.0 lb at 70.00 in" in out
-    assert "Note: hangar [b]3[/b]\\x1b[2J" in out
+    assert "Note: hangar [b]3[/b] :warning:\\x1b[2J" in out  # no emoji read either
 
 
 def test_history_prints_names_reasons_and_signatories_as_text(run):
