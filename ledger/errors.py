@@ -35,6 +35,7 @@ __all__ = [
     "AccessRefusedError",
     "StoredDataError",
     "EnvironmentProblem",
+    "DatabaseProblem",
     "DatabaseUnavailableError",
     "ReadOnlyDatabaseError",
     "DatabaseLockedError",
@@ -270,9 +271,8 @@ class EnvironmentProblem(LedgerError):
     exit_code = ExitCode.ENVIRONMENT
 
 
-class DatabaseUnavailableError(EnvironmentProblem):
-    """The database failed in the middle of a command (server shut down, backend terminated,
-    connection lost, disk full): the transaction was rolled back.
+class DatabaseProblem(EnvironmentProblem):
+    """The database stopped a command for a reason of its own; the transaction was rolled back.
 
     Parameters
     ----------
@@ -282,30 +282,42 @@ class DatabaseUnavailableError(EnvironmentProblem):
         The first line of the driver's message.
     """
 
+    #: The message; each subclass says what happened and what to do next.
+    template = "the database {database} refused the command ({reason}); nothing was changed"
+
     def __init__(self, database: str, reason: str) -> None:
         self.database = database
         self.reason = reason
         super().__init__(database, reason)
 
     def __str__(self) -> str:
-        return (f"the database {self.database} could not complete the command "
-                f"({self.reason}); nothing was changed. Run the command again once the "
-                "database is available")
+        return self.template.format(database=self.database, reason=self.reason)
 
 
-class ReadOnlyDatabaseError(EnvironmentProblem):
+class DatabaseUnavailableError(DatabaseProblem):
+    """The database failed in the middle of a command (server shut down, backend terminated,
+    connection lost, disk full)."""
+
+    template = ("the database {database} could not complete the command ({reason}); nothing "
+                "was changed. Run the command again once the database is available")
+
+
+class ReadOnlyDatabaseError(DatabaseProblem):
     """The database refuses writes: a read-only file, folder or file system, or a read-only
     server or transaction."""
 
-    def __init__(self, database: str, reason: str) -> None:
-        self.database = database
-        self.reason = reason
-        super().__init__(database, reason)
+    template = ("the database {database} is read-only ({reason}); nothing was changed. Give "
+                "your user write access to the file and its folder (or use a server that "
+                "accepts writes), then run the command again")
 
-    def __str__(self) -> str:
-        return (f"the database {self.database} is read-only ({self.reason}); nothing was "
-                "changed. Give your user write access to the file and its folder (or use a "
-                "server that accepts writes), then run the command again")
+
+class ConcurrentWriteError(DatabaseProblem):
+    """Another process recorded the same thing at the same moment (a unique key taken between
+    this command's check and its write)."""
+
+    template = ("another process wrote to the database {database} at the same moment "
+                "({reason}); nothing was changed by this command. Run it again: it will see "
+                "what the other one recorded")
 
 
 class DatabaseLockedError(EnvironmentProblem):
@@ -321,21 +333,6 @@ class DatabaseLockedError(EnvironmentProblem):
         return (f"the database {self.database} stayed locked by another process for more than "
                 f"{self.timeout_s:g} s; nothing was changed. Run the command again when the "
                 f"other one has finished, or wait longer with {self.variable}=SECONDS")
-
-
-class ConcurrentWriteError(EnvironmentProblem):
-    """Another process recorded the same thing at the same moment (a unique key taken between
-    this command's check and its write); this command's transaction was rolled back."""
-
-    def __init__(self, database: str, what: str) -> None:
-        self.database = database
-        self.what = what
-        super().__init__(database, what)
-
-    def __str__(self) -> str:
-        return (f"another process wrote to the database {self.database} at the same moment "
-                f"({self.what}); nothing was changed by this command. Run it again: it will "
-                "see what the other one recorded")
 
 
 class UnwritableFileError(InputError):
