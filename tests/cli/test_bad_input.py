@@ -596,3 +596,20 @@ def test_an_impossible_date_is_reported_in_one_line(cli):
             3, "", _unreadable("month must be in 1..12")), args
     res = cli("verify", "KVA-101")
     assert res.exit_code == 3 and "entry 2" in res.stderr
+
+
+def test_a_saved_sheet_changed_by_hand_exits_3(cli):
+    """Issue 13 item 8: stored data that does not verify is exit 3 (it was 1, the code of "out
+    of limits"), whichever check finds it."""
+    from ledger.store.db import make_engine
+
+    eng = make_engine(cli.db_url)
+    try:
+        with eng.begin() as conn:
+            guards.drop(conn, ["loading_sheets"])
+            conn.execute(text("UPDATE loading_sheets SET preparer = 'someone else' WHERE id = 1"))
+    finally:
+        eng.dispose()
+    res = cli("sheet", "show", "1")
+    assert res.exit_code == 3, res.stderr
+    assert res.stderr.count("\n") == 1 and res.stderr.startswith("Error: ")
