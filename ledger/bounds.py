@@ -23,12 +23,16 @@ use it without loading the database layer.
 
 from __future__ import annotations
 
+import contextlib
+import gc
 import json
 import math
 import tomllib
+from collections.abc import Iterator
 from typing import Any
 
 from ledger.errors import InputError
+from ledger.errors import Shown as _Shown
 
 __all__ = [
     "item_field",
@@ -66,18 +70,6 @@ NUMBER_RULE = f"a number from {-MAX_NUMBER:g} to {MAX_NUMBER:g}"
 
 _SHOWN = 40
 _DEEP = f"at most {MAX_DEPTH} levels of nesting"
-
-
-class _Shown:
-    """A value shown in a message as written here (no quotes)."""
-
-    def __init__(self, text: str) -> None:
-        self.text = text
-
-    def __str__(self) -> str:
-        return self.text
-
-    __repr__ = __str__
 
 
 def shown(value: object) -> object:
@@ -255,6 +247,20 @@ def _too_deep_or_long(exc: Exception, source: str | None, root: str = "") -> Inp
                       NUMBER_RULE, source=source)
 
 
+@contextlib.contextmanager
+def _no_collection() -> Iterator[None]:
+    """No garbage collection while a parser recurses: a collection started at its deepest point
+    would run other objects' finalizers with no stack left, and each failure would reach stderr
+    as "Exception ignored in sys.unraisablehook" around the one-line error."""
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if enabled:
+            gc.enable()
+
+
 def load_json(text: str, *, source: str | None = None, root: str = "") -> Any:
     """Parse JSON text and :func:`check_document` it; ``root`` names the document in errors
     (``"detail_json"`` for JSON held in a field of a file).
@@ -264,7 +270,8 @@ def load_json(text: str, *, source: str | None = None, root: str = "") -> Any:
     :class:`InputError`.
     """
     try:
-        data = json.loads(text)
+        with _no_collection():
+            data = json.loads(text)
     except json.JSONDecodeError:
         raise
     except (RecursionError, ValueError) as exc:
@@ -280,7 +287,8 @@ def load_toml(text: str, *, source: str | None = None) -> dict:
     more digits than Python converts, as an :class:`InputError`.
     """
     try:
-        data = tomllib.loads(text)
+        with _no_collection():
+            data = tomllib.loads(text)
     except tomllib.TOMLDecodeError:
         raise
     except (RecursionError, ValueError) as exc:

@@ -30,6 +30,7 @@ put the sheet wherever the link points, perhaps over another file.
 from __future__ import annotations
 
 import contextlib
+import errno
 import os
 import re
 import secrets
@@ -38,7 +39,7 @@ from collections.abc import Iterator
 from pathlib import Path
 from typing import BinaryIO
 
-from ledger.errors import InputError
+from ledger.errors import InputError, UnwritableFileError
 
 __all__ = [
     "FILE_MODE",
@@ -254,7 +255,7 @@ def _refuse_target(p: Path, field: str) -> None:
     # The file is replaced, not written in place, so only its folder needs to be writable; a
     # file its owner made read-only is still respected.
     if not os.access(p, os.W_OK):
-        raise InputError(field, text, "a file that can be written (permission denied)")
+        raise UnwritableFileError(field, text, "a file that can be written (permission denied)")
 
 
 def check_output_path(path: str | os.PathLike, field: str) -> Path:
@@ -296,14 +297,22 @@ def check_output_path(path: str | os.PathLike, field: str) -> Path:
     if not parent.is_dir():
         raise InputError(field, text, f"a file in a folder; {str(parent)!r} is not a folder")
     if not os.access(parent, os.W_OK):
-        raise InputError(field, text, "a file that can be written (permission denied)")
+        raise UnwritableFileError(field, text, "a file that can be written (permission denied)")
     return p
 
 
+#: ``OSError`` numbers that say the name given is wrong (bad input, exit 2); any other failure
+#: to write (permission, read-only file system, full disk) is the environment's (exit 4).
+_BAD_NAME_ERRNOS = frozenset({errno.ENOENT, errno.ENOTDIR, errno.EISDIR, errno.ENAMETOOLONG,
+                              errno.ELOOP, errno.EEXIST, errno.EINVAL})
+
+
 def output_error(path: str | os.PathLike, field: str, exc: OSError) -> InputError:
-    """The :class:`InputError` for ``exc``, raised while writing ``path`` given by ``field``."""
+    """The :class:`InputError` for ``exc``, raised while writing ``path`` given by ``field``
+    (an :class:`UnwritableFileError` when the name is fine but the file cannot be written)."""
     reason = exc.strerror or exc.__class__.__name__
-    return InputError(field, str(path), f"a file that can be written ({reason})")
+    cls = InputError if exc.errno in _BAD_NAME_ERRNOS else UnwritableFileError
+    return cls(field, str(path), f"a file that can be written ({reason})")
 
 
 def _private_opener(path: str, flags: int) -> int:

@@ -286,7 +286,7 @@ ERROR_CASES = [
     ("82", "mass", None, f"f = '82': a unit is required; {MASS_UNITS}"),
     (82, "density", None, "f = 82: a unit is required; density units: mass/volume such as "
      "kg/L, lb/USgal (masses: kg, g, t, lb, slug; volumes: m3, L, USgal, impgal, ft3, in3)"),
-    (True, "mass", "kg", "f = True: expected a mass: a number, or a string such as '82 kg'"),
+    (True, "mass", "kg", "f = true: expected a mass: a number, or a string such as '82 kg'"),
     (None, "mass", "kg", "f = None: expected a mass: a number, or a string such as '82 kg'"),
     ([1, 2], "length", "m",
      "f = [1, 2]: expected a length: a number, or a string such as '47.5 in'"),

@@ -1,10 +1,12 @@
 """The ``wbledger`` command line: thin adapters over the library.
 
 Each command parses its arguments, makes one call into ``ledger.store`` / ``ledger.typedata`` /
-``ledger.core``, and renders the result with ``ledger.report``. Errors are translated once, here:
-a :class:`ledger.errors.LedgerError` becomes ``Error: …`` on stderr and its exit code (2 for bad
-input). Heavy libraries (SQLAlchemy, numpy) are imported inside the commands, so that
-``wbledger --help`` starts quickly.
+``ledger.core``, and renders the result with ``ledger.report``. Errors are translated once, here
+(through :func:`ledger.cli.common.translate`): a :class:`ledger.errors.LedgerError` becomes
+``Error: …`` on stderr and its exit code (:class:`ledger.errors.ExitCode`, listed in ``--help``),
+anything else one line with code 70, and a closed pipe ends quietly. Heavy libraries
+(SQLAlchemy, numpy) are imported inside the commands, so that ``wbledger --help`` starts
+quickly.
 """
 
 from __future__ import annotations
@@ -15,6 +17,7 @@ import typer
 from typer.core import TyperGroup
 
 from ledger.cli import common
+from ledger.errors import EXIT_CODE_HELP
 
 __all__ = ["app", "main"]
 
@@ -25,12 +28,29 @@ def _usage_line(exc) -> None:
 
     if isinstance(exc, NoArgsIsHelpError):  # a bare group: its help is the answer
         raise exc
-    message = " ".join(exc.format_message().split()).rstrip(".")
+    message = _bad_value(exc) or " ".join(exc.format_message().split()).rstrip(".")
     where = ""
     if exc.ctx is not None:  # named as the user types it, whatever the runner called the root
         path = ["wbledger", *exc.ctx.command_path.split()[1:]]
         where = f" (see `{' '.join(path)} --help`)"
     common.fail(f"{message}{where}", exc.exit_code)
+
+
+def _bad_value(exc) -> str | None:
+    """``FIELD = VALUE: what is wrong`` for a value typer could not convert (an id past the
+    database's integer range, a word for a number), as every other bad input is named; None
+    for other usage errors."""
+    errors = getattr(exc.__cause__, "errors", None)  # pydantic's ValidationError
+    param = getattr(exc, "param", None)
+    if param is None or not callable(errors) or not errors():
+        return None
+    first = errors()[0]
+    field = (param.opts[-1] if param.param_type_name == "option"
+             else str(getattr(param, "display_name_raw", None) or param.name).upper())
+    value = first.get("input")
+    shown = repr(value) if isinstance(value, str) else str(value)
+    text = str(first.get("msg", "not accepted"))
+    return f"{field} = {shown}: {text[:1].lower()}{text[1:]}"
 
 
 class _LedgerGroup(TyperGroup):
@@ -43,6 +63,8 @@ class _LedgerGroup(TyperGroup):
             return super().make_context(info_name, args, parent=parent, **extra)
         except UsageError as exc:
             _usage_line(exc)
+        except BaseException as exc:  # noqa: BLE001 - `--help | head`: each gets its exit code
+            common.translate(exc)
 
     def invoke(self, ctx):
         from typer._click.exceptions import UsageError
@@ -51,12 +73,8 @@ class _LedgerGroup(TyperGroup):
             return super().invoke(ctx)
         except UsageError as exc:
             _usage_line(exc)
-        except Exception as exc:  # noqa: BLE001 - re-raised unless it is ours
-            from ledger.errors import LedgerError
-
-            if isinstance(exc, LedgerError):
-                common.fail(str(exc), exc.exit_code)
-            raise
+        except BaseException as exc:  # noqa: BLE001 - each gets its exit code
+            common.translate(exc)
 
 
 app = typer.Typer(
@@ -66,8 +84,11 @@ app = typer.Typer(
     pretty_exceptions_enable=False,
     help="A weight-and-balance ledger for aircraft and road vehicles: empty-weight history, "
     "loading sheets checked against the CG envelope, fixes, and loaded inertia.",
-    epilog="Shell completion: run `wbledger --install-completion` once (bash, zsh, fish or "
-    "PowerShell) and open a new shell; `wbledger --show-completion` prints the script instead.",
+    epilog=EXIT_CODE_HELP + "
+
+Shell completion: run `wbledger --install-completion` once "
+    "(bash, zsh, fish or PowerShell) and open a new shell; `wbledger --show-completion` prints "
+    "the script instead.",
 )
 
 
@@ -104,6 +125,7 @@ def _root(
     _show_version: bool = VERSION_OPTION,
 ) -> None:
     ctx.obj = common.State(db_url=db)
+    ctx.call_on_close(ctx.obj.close)
 
 
 def _register() -> None:
@@ -129,5 +151,13 @@ _register()
 
 def main() -> None:
     """Entry point of the ``wbledger`` console script and ``python -m ledger``."""
-    app(prog_name="wbledger")
+    try:
+        try:
+            app(prog_name="wbledger")
+        finally:
+            # Output to a pipe is buffered: a reader that went away (`| head`) shows here,
+            # not in the command, and must end as quietly as it does there.
+            sys.stdout.flush()
+    except BrokenPipeError:
+        common.pipe_closed()
     sys.exit(0)

@@ -220,7 +220,7 @@ def show(ctx: typer.Context,
     _outputs(doc, as_json, width, pdf, svg)
     if not shown.verified:
         common.fail(f"sheet {sheet_id} does not match its content hash; it was changed "
-                    "outside wbledger", 1)
+                    "outside wbledger", common.ExitCode.DATA)
 
 
 @sheet_app.command("list", epilog=examples(

@@ -20,6 +20,7 @@ import numpy as np
 
 from ledger.core._common import index_text, plain
 from ledger.errors import MassPropertiesError
+from ledger.errors import Shown as _Shown
 
 __all__ = [
     "Vector3",
@@ -79,20 +80,6 @@ class MassState(NamedTuple):
         with np.errstate(divide="ignore", invalid="ignore"):
             cg = np.where(mass > 0, moment / np.where(mass > 0, mass, 1.0), np.nan)
         return plain(cg)
-
-
-class _Shown:
-    """A value shown verbatim in an error message (e.g. ``shape (3,)``)."""
-
-    def __init__(self, text: str) -> None:
-        self.text = text
-
-    def __str__(self) -> str:
-        return self.text
-
-    def __repr__(self) -> str:
-        return self.text
-
 
 
 def _as_float_array(value, field: str) -> np.ndarray:

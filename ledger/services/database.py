@@ -3,6 +3,7 @@ database's own use cases: create, upgrade, status and (PostgreSQL) group roles."
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -10,9 +11,19 @@ from typing import Any
 from sqlalchemy.engine import Engine
 
 from ledger.store import db, roles
-from ledger.store.db import check_schema, make_engine, session_scope
+from ledger.store.db import (
+    LOCK_TIMEOUT_VAR,
+    check_schema,
+    lock_timeout,
+    make_engine,
+    session_scope,
+    shown_url,
+)
 
 __all__ = [
+    "LOCK_TIMEOUT_VAR",
+    "lock_timeout",
+    "shown_url",
     "check_database",
     "open_database",
     "unit_of_work",
@@ -33,20 +44,22 @@ unit_of_work = session_scope
 check_database = check_schema
 
 
-def open_database(url: str | None = None, *, check: bool = True) -> Engine:
+def open_database(url: str | None = None, *, check: bool = True,
+                  on_lock_wait: Callable[[], None] | None = None) -> Engine:
     """The engine for ``url`` (``--db``, else ``$WBLEDGER_DB``, else the user's default file).
 
     With ``check``, a database that is not initialised or not at this version's schema is
-    refused with the command that mends it.
+    refused with the command that mends it. ``on_lock_wait`` is called when a transaction
+    has waited about a second for a lock another process holds (the CLI says so).
     """
-    engine = make_engine(url)
+    engine = make_engine(url, on_lock_wait=on_lock_wait)
     if check:
         check_database(engine)
     return engine
 
 
 def _shown(engine: Engine) -> str:
-    return engine.url.render_as_string(hide_password=True)
+    return shown_url(engine.url)
 
 
 @dataclass(frozen=True)

@@ -3,17 +3,7 @@
 from __future__ import annotations
 
 from ledger import units as U
-
-
-class _Shown:
-    """A value shown in an error message as written here (no quotes)."""
-
-    def __init__(self, text: str) -> None:
-        self.text = text
-
-    def __str__(self) -> str:
-        return self.text
-
+from ledger.errors import Shown as _Shown
 
 _MISSING = _Shown("(missing)")
 

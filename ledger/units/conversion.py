@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 import re
 
-from ledger.errors import UnitError
+from ledger.errors import Shown, UnitError
 
 __all__ = ["LB", "INCH", "FOOT", "US_GALLON", "IMPERIAL_GALLON", "LBF", "SI_UNITS", "DIMENSIONS",
            "EXAMPLES", "describe_units", "units_of", "dimension_of", "canonical_unit",
@@ -147,15 +147,11 @@ def _units_clause(dimension: str) -> str:
     return f"{label} units: {_listing(dimension)}"
 
 
-class _Raw:
-    """A value shown in an error message as it is (no quotes): None, a list, a table."""
-
-    def __init__(self, value: object) -> None:
-        text = repr(value)
-        self.text = text if len(text) <= 60 else text[:57] + "..."
-
-    def __str__(self) -> str:
-        return self.text
+def _Raw(value: object) -> Shown:
+    """A value shown in an error message as it is (no quotes): None, a list, a table; a
+    boolean as TOML and JSON spell it."""
+    text = ("true" if value else "false") if isinstance(value, bool) else repr(value)
+    return Shown(text if len(text) <= 60 else text[:57] + "...")
 
 
 def describe_units(dimension: str) -> str:
@@ -277,8 +273,6 @@ def canonical_unit(unit: str, dimension: str | None = None, *, field: str = "uni
         raise UnitError(field, unit, "not a unit wbledger knows; see the units table in "
                         "demo_fleet/FORMAT.md")
     return u
-
-
 
 
 def from_unit(value, unit: str, dimension: str | None = None):

@@ -91,7 +91,7 @@ def test_vehicle_add_errors(cli):
 
 def test_commands_refuse_an_uninitialised_database(cli):
     res = cli("type", "list")
-    assert res.exit_code == 2
+    assert res.exit_code == 4  # issue 13 item 8: the environment, not the input
     assert "has no wbledger schema; run `wbledger init` first" in res.stderr
 
 

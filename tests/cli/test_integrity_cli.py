@@ -85,7 +85,7 @@ def test_checkpoint_signed_and_checked(ready, tmp_path):  # noqa: F811
     out = " ".join(_ok(cli("verify", "--against", tmp_path / "cp.json")).split())
     assert "added since: TS-101: 1 entry" in out
     r = cli("verify", "--against", tmp_path / "cp.json", "--exact")
-    assert r.exit_code == 1
+    assert r.exit_code == 3  # issue 13 item 8: data that does not verify
     assert r.stderr == (f"Error: the database does not match the checkpoint "
                         f"{tmp_path / 'cp.json'}: added since the checkpoint: TS-101: 1 entry\n")
 
@@ -93,13 +93,13 @@ def test_checkpoint_signed_and_checked(ready, tmp_path):  # noqa: F811
     edited = dict(cp, vehicles=[dict(cp["vehicles"][0], entries=2)])
     (tmp_path / "edited.json").write_text(json.dumps(edited))
     r = cli("verify", "--against", tmp_path / "edited.json")
-    assert (r.exit_code, r.stderr) == (1, f"Error: the checkpoint {tmp_path / 'edited.json'} "
+    assert (r.exit_code, r.stderr) == (3, f"Error: the checkpoint {tmp_path / 'edited.json'} "
                                           "was changed after it was written: its digest does not "
                                           "match its content\n")
     _ok(cli("checkpoint-key", tmp_path / "other"))
     _ok(cli("checkpoint", tmp_path / "cp2.json", "--sign", tmp_path / "other"))
     r = cli("verify", "--against", tmp_path / "cp2.json", "--public-key", pub)
-    assert r.exit_code == 1
+    assert r.exit_code == 3
     assert "signature does not verify with that public key" in r.stderr
     r = cli("verify", "--against", tmp_path / "cp2.json")
     assert r.exit_code == 0 and "signature: not checked (give --public-key)" in " ".join(
@@ -121,14 +121,14 @@ def test_a_rewrite_with_recomputed_seals_is_caught_only_by_the_checkpoint(ready,
         eng.dispose()
     _ok(cli("verify"))
     r = cli("verify", "--against", tmp_path / "cp.json")
-    assert r.exit_code == 1
+    assert r.exit_code == 3
     assert r.stderr == (f"Error: the database does not match the checkpoint "
                         f"{tmp_path / 'cp.json'}: TS-101: entry 2, checkpointed, is gone: "
                         "entries were removed\n")
     # and a checkpoint is never written of data that does not verify
     _sql(cli, "UPDATE vehicles SET serial = 'X'", drop=["vehicles"])
     r = cli("checkpoint", tmp_path / "cp3.json")
-    assert r.exit_code == 1 and not (tmp_path / "cp3.json").exists()
+    assert r.exit_code == 3 and not (tmp_path / "cp3.json").exists()
     assert r.stderr.startswith("Error: no checkpoint is written of data that does not verify: "
                                "the chain of TS-101 does not verify: vehicle record:")
 

@@ -285,7 +285,7 @@ def test_import_bad_row_names_line_and_field(ready, db, tmp_path):
     assert r.stderr.startswith("Error: --format = 'txt': csv or json")
 
 
-def test_verify_names_the_first_bad_entry_and_exits_1(ready, db):
+def test_verify_names_the_first_bad_entry_and_exits_3(ready, db):
     ok(ready("weigh", "KV-101", *A_READINGS, "--date", "2025-01-10"))
     ok(ready("install", "KV-101", "lamp", "--mass", "2", "--arm", "80", "--reason", "fit",
              "--date", "2025-01-11"))
@@ -295,7 +295,7 @@ def test_verify_names_the_first_bad_entry_and_exits_1(ready, db):
         guards.drop(conn, ["ledger_entries"])
         conn.execute(text("UPDATE ledger_entries SET item_mass_kg = 0.5 WHERE seq = 2"))
     r = ready("verify")
-    assert r.exit_code == 1
+    assert r.exit_code == 3  # issue 13 item 8
     assert " ".join(r.stdout.split()) == (
         "KV-101: NOT VERIFIED: entry 2: its content does not match its hash (a field was "
         "changed after it was written) KV-102: 0 entries, chain verified "

@@ -157,7 +157,7 @@ def test_an_unreadable_stored_date_is_a_stored_data_error(sqlite_url):
     with pytest.raises(StoredDataError) as err, session_scope(eng) as s:
         s.execute(text("SELECT 1")).all()
         s.execute(select(VehicleTypeRow.created_at)).all()
-    assert err.value.exit_code == 1
+    assert err.value.exit_code == 3  # issue 13 item 8: stored data cannot be read
     assert str(err.value).startswith("a value stored in the database cannot be read (")
     with pytest.raises(ValueError, match="^plain$") as plain, session_scope(eng):
         raise ValueError("plain")
