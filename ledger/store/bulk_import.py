@@ -314,6 +314,8 @@ class _Importer:
     def __init__(self, session: Session, vehicle, source: str) -> None:
         self.session = session
         self.vehicle = vehicle
+        # Plain attributes: read once per row, the ORM's descriptors would cost more.
+        self.vid, self.registration = vehicle.id, vehicle.registration
         self.source = source
         head = newest_entry(session, vehicle.id)
         self.state = RunningState() if head is None else head.state()
@@ -379,20 +381,18 @@ class _Importer:
             detail_json = canonical_json(detail) if detail else "{}"
         except (ValueError, TypeError):
             raise row.err("detail_json", "…", "JSON without NaN or infinity") from None
-        values = {
-            "vehicle_id": self.vehicle.id, "kind": kind, "entry_date": day,
-            "recorded_at": recorded, "actor": actor, "reason": reason, "reference": reference,
-            "item": item,
-            "item_mass_kg": None if change is None else change.mass_kg,
-            "item_x_m": None if change is None else change.x_m,
-            "item_y_m": None if change is None else change.y_m,
-            "item_z_m": None if change is None else change.z_m,
-            **effect.columns(),
-            "reverses_seq": None if change is None else change.reverses_seq,
-            "detail_json": detail_json, "prev_hash": self.prev_hash,
-        }
+        values = effect.columns()
+        values.update(
+            vehicle_id=self.vid, kind=kind, entry_date=day, recorded_at=recorded, actor=actor,
+            reason=reason, reference=reference, item=item,
+            item_mass_kg=None if change is None else change.mass_kg,
+            item_x_m=None if change is None else change.x_m,
+            item_y_m=None if change is None else change.y_m,
+            item_z_m=None if change is None else change.z_m,
+            reverses_seq=None if change is None else change.reverses_seq,
+            detail_json=detail_json, prev_hash=self.prev_hash)
         _check_computed(row, values)
-        values["entry_hash"] = _sealed(row, values, self.vehicle.registration)
+        values["entry_hash"] = _sealed(row, values, self.registration)
         self.state, self.prev_hash = effect.after, values["entry_hash"]
         return values
 

@@ -11,9 +11,12 @@ against each other). PostgreSQL keeps the Core statements.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from functools import lru_cache
+from operator import itemgetter
 from typing import Any, NamedTuple
+
+from sqlalchemy.engine.processors import to_float
 
 from ledger.store.models import LedgerEntryRow
 
@@ -28,6 +31,12 @@ class SqliteInsert(NamedTuple):
     sql: str
     cols: tuple[str, ...]
     converters: tuple[tuple[int, Any], ...]
+    #: ``values`` in the order of ``cols`` (one C call per row).
+    pick: Callable[[Mapping[str, Any]], tuple]
+    #: Indexes of ``converters`` whose converter is SQLAlchemy's ``to_float``: a Python float
+    #: is passed as it is (the converter would return an equal float), so only another value
+    #: (an int, a numpy scalar) goes through it.
+    floats: frozenset[int]
 
     def memo(self) -> tuple[dict, ...]:
         """Empty memos for :meth:`row` (one per converter), for a bulk insert."""
@@ -36,14 +45,16 @@ class SqliteInsert(NamedTuple):
     def row(self, values: Mapping[str, Any], memo: tuple[dict, ...] | None = None) -> tuple:
         """``values`` (column → value) as the driver's parameter tuple; a ``memo`` kept across
         the rows of a bulk insert converts each distinct value once."""
-        t = [values[c] for c in self.cols]
-        for (k, proc), seen in zip(self.converters, memo or self.memo()):
+        t = list(self.pick(values))
+        floats = self.floats
+        for j, ((k, proc), seen) in enumerate(zip(self.converters, memo or self.memo())):
             v = t[k]
-            if v is not None:
-                done = seen.get(v)
-                if done is None:
-                    done = seen[v] = proc(v)
-                t[k] = done
+            if v is None or (v.__class__ is float and j in floats):
+                continue
+            done = seen.get(v)
+            if done is None:
+                done = seen[v] = proc(v)
+            t[k] = done
         return tuple(t)
 
 
@@ -62,6 +73,7 @@ def sqlite_insert(dialect) -> SqliteInsert:
         proc = table.c[name].type.dialect_impl(dialect).bind_processor(dialect)
         if proc is not None:
             converters.append((k, proc))
+    floats = frozenset(j for j, (_, proc) in enumerate(converters) if proc is to_float)
     sql = (f"INSERT INTO {table.name} ({', '.join(cols)}) "
            f"VALUES ({', '.join('?' for _ in cols)})")
-    return SqliteInsert(sql, cols, tuple(converters))
+    return SqliteInsert(sql, cols, tuple(converters), itemgetter(*cols), floats)
