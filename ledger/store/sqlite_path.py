@@ -30,13 +30,13 @@ class SqliteInsert(NamedTuple):
 
     sql: str
     cols: tuple[str, ...]
+    #: The bind converters by column index, but for ``floats``.
     converters: tuple[tuple[int, Any], ...]
     #: ``values`` in the order of ``cols`` (one C call per row).
     pick: Callable[[Mapping[str, Any]], tuple]
-    #: Indexes of ``converters`` whose converter is SQLAlchemy's ``to_float``: a Python float
-    #: is passed as it is (the converter would return an equal float), so only another value
-    #: (an int, a numpy scalar) goes through it.
-    floats: frozenset[int]
+    #: Indexes of the columns whose converter is SQLAlchemy's ``to_float``: a Python float is
+    #: passed as it is (the converter would return an equal float), anything else converted.
+    floats: tuple[int, ...]
 
     def memo(self) -> tuple[dict, ...]:
         """Empty memos for :meth:`row` (one per converter), for a bulk insert."""
@@ -46,15 +46,17 @@ class SqliteInsert(NamedTuple):
         """``values`` (column → value) as the driver's parameter tuple; a ``memo`` kept across
         the rows of a bulk insert converts each distinct value once."""
         t = list(self.pick(values))
-        floats = self.floats
-        for j, ((k, proc), seen) in enumerate(zip(self.converters, memo or self.memo())):
+        for (k, proc), seen in zip(self.converters, memo or self.memo()):
             v = t[k]
-            if v is None or (v.__class__ is float and j in floats):
-                continue
-            done = seen.get(v)
-            if done is None:
-                done = seen[v] = proc(v)
-            t[k] = done
+            if v is not None:
+                done = seen.get(v)
+                if done is None:
+                    done = seen[v] = proc(v)
+                t[k] = done
+        for k in self.floats:
+            v = t[k]
+            if v is not None and v.__class__ is not float:
+                t[k] = to_float(v)
         return tuple(t)
 
 
@@ -68,12 +70,13 @@ def sqlite_insert(dialect) -> SqliteInsert:
     """The insert of a ledger entry (every column but ``id``) for the sqlite3 driver."""
     table = _E.__table__
     cols = tuple(c.name for c in table.columns if c.name != "id")
-    converters = []
+    converters, floats = [], []
     for k, name in enumerate(cols):
         proc = table.c[name].type.dialect_impl(dialect).bind_processor(dialect)
-        if proc is not None:
+        if proc is to_float:
+            floats.append(k)
+        elif proc is not None:
             converters.append((k, proc))
-    floats = frozenset(j for j, (_, proc) in enumerate(converters) if proc is to_float)
     sql = (f"INSERT INTO {table.name} ({', '.join(cols)}) "
            f"VALUES ({', '.join('?' for _ in cols)})")
-    return SqliteInsert(sql, cols, tuple(converters), itemgetter(*cols), floats)
+    return SqliteInsert(sql, cols, tuple(converters), itemgetter(*cols), tuple(floats))
