@@ -386,16 +386,18 @@ class _Importer:
             detail_json = canonical_json(detail) if detail else "{}"
         except (ValueError, TypeError):
             raise row.err("detail_json", "…", "JSON without NaN or infinity") from None
-        values = effect.columns()
-        values.update(
-            vehicle_id=self.vid, kind=kind, entry_date=day, recorded_at=recorded, actor=actor,
-            reason=reason, reference=reference, item=item,
-            item_mass_kg=None if change is None else change.mass_kg,
-            item_x_m=None if change is None else change.x_m,
-            item_y_m=None if change is None else change.y_m,
-            item_z_m=None if change is None else change.z_m,
-            reverses_seq=None if change is None else change.reverses_seq,
-            detail_json=detail_json, prev_hash=self.prev_hash)
+        if change is None:
+            im = ix = iy = iz = reverses = None
+        else:
+            im, ix, iy, iz, reverses = (change.mass_kg, change.x_m, change.y_m, change.z_m,
+                                        change.reverses_seq)
+        values = {
+            "vehicle_id": self.vid, "kind": kind, "entry_date": day, "recorded_at": recorded,
+            "actor": actor, "reason": reason, "reference": reference, "item": item,
+            "item_mass_kg": im, "item_x_m": ix, "item_y_m": iy, "item_z_m": iz,
+            **effect.columns(),
+            "reverses_seq": reverses, "detail_json": detail_json, "prev_hash": self.prev_hash,
+        }
         _check_computed(row, values)
         values["entry_hash"] = _sealed(row, values, self.registration)
         self.state, self.prev_hash = effect.after, values["entry_hash"]
