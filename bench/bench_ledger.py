@@ -1,7 +1,9 @@
 """Benchmarks of the ledger store, each against raw ``sqlite3`` measured in the same run.
 
 Run from the repository root with ``python -m bench.bench_ledger`` (or
-``python bench/bench_ledger.py``). Prints one line per benchmark::
+``python bench/bench_ledger.py``); name benchmarks to run only those
+(``python -m bench.bench_ledger bulk single``; the names are in ``BENCHES``). Prints one line
+per benchmark::
 
     bench NAME: ratio R (target T)
 
@@ -323,18 +325,26 @@ def bench_verify(folder: Path, vehicles: int = 1000, per_vehicle: int = 100,
     return ratio
 
 
-def main() -> None:
+#: The benchmarks by short name (``python -m bench.bench_ledger bulk single`` runs two).
+BENCHES = {
+    "bulk": ("ledger_bulk_import_100k", bench_bulk_import, "0.3"),
+    "single": ("ledger_single_append", bench_single_append, "0.3"),
+    "fleet": ("ledger_fleet_view_1000x100", bench_fleet_view, "1.5"),
+    "verify": ("verify_1000x100_10k_sheets", bench_verify, "3"),
+}
+
+
+def main(names: list[str] | None = None) -> None:
+    names = names or list(BENCHES)
+    unknown = sorted(set(names) - set(BENCHES))
+    if unknown:
+        raise SystemExit(f"unknown bench {', '.join(unknown)}; choose from {', '.join(BENCHES)}")
     with tempfile.TemporaryDirectory(prefix="wbledger-bench-", dir=None) as tmp:
         folder = Path(tmp)
-        print(f"bench ledger_bulk_import_100k: ratio {bench_bulk_import(folder):.2f} "
-              "(target 0.3)", flush=True)
-        print(f"bench ledger_single_append: ratio {bench_single_append(folder):.2f} "
-              "(target 0.3)", flush=True)
-        print(f"bench ledger_fleet_view_1000x100: ratio {bench_fleet_view(folder):.2f} "
-              "(target 1.5)", flush=True)
-        print(f"bench verify_1000x100_10k_sheets: ratio {bench_verify(folder):.2f} "
-              "(target 3)", flush=True)
+        for key in names:
+            title, bench, target = BENCHES[key]
+            print(f"bench {title}: ratio {bench(folder):.2f} (target {target})", flush=True)
 
 
 if __name__ == "__main__":
-    main()
+    main(sys.argv[1:])

@@ -84,9 +84,7 @@ app = typer.Typer(
     pretty_exceptions_enable=False,
     help="A weight-and-balance ledger for aircraft and road vehicles: empty-weight history, "
     "loading sheets checked against the CG envelope, fixes, and loaded inertia.",
-    epilog=EXIT_CODE_HELP + "
-
-Shell completion: run `wbledger --install-completion` once "
+    epilog=EXIT_CODE_HELP + "\n\nShell completion: run `wbledger --install-completion` once "
     "(bash, zsh, fish or PowerShell) and open a new shell; `wbledger --show-completion` prints "
     "the script instead.",
 )

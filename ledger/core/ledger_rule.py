@@ -32,7 +32,6 @@ vehicles are not assessed.
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass
 from typing import Any, NamedTuple
 
 from ledger.errors import LedgerError
@@ -66,11 +65,12 @@ LB = 0.45359237
 ABSOLUTE_KINDS = frozenset({"weighing", "cg_height"})
 
 
-@dataclass(frozen=True)
-class RunningState:
+class RunningState(NamedTuple):
     """The running empty state after a vehicle's newest entry; ``seq`` 0 when it has none.
 
-    Masses kg, moments kg·m; ``mz_kgm`` means something only when ``z_known``.
+    Masses kg, moments kg·m; ``mz_kgm`` means something only when ``z_known``. Immutable; a
+    named tuple rather than a frozen dataclass because a bulk import makes one per entry and a
+    frozen dataclass costs several times as much to build.
     """
 
     seq: int = 0
@@ -95,9 +95,11 @@ class Moments(NamedTuple):
     mz_kgm: float | None
 
 
-@dataclass(frozen=True)
-class EntryEffect:
-    """What one entry does: its number, its change and the running state after it."""
+class EntryEffect(NamedTuple):
+    """What one entry does: its number, its change and the running state after it.
+
+    A named tuple, as :class:`RunningState` is (one per entry of a bulk import).
+    """
 
     kind: str
     delta_mass_kg: float

@@ -23,31 +23,21 @@ import datetime as dt
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, NamedTuple
+from typing import TYPE_CHECKING, Any, NamedTuple
 
 from sqlalchemy.engine import Engine
 from sqlalchemy.orm import Session
 
 from ledger.errors import ChainError, ConflictError
-from ledger.loadsheet import AmendmentCheck, build_sheet, compare_plans
-from ledger.loadsheet.amend import amendment_doc
+from ledger.loadsheet import build_sheet
 from ledger.loadsheet.text import mass_text
 from ledger.services.database import unit_of_work
 from ledger.store.catalog import get_vehicle
 from ledger.store.configs import ConfigurationView, configuration_items
-from ledger.store.entries import EmptyState, current_empty, vehicle_type_info
-from ledger.store.evidence import sheet_problem
-from ledger.store.models import VehicleRow
+from ledger.store.entry_reads import current_empty
+from ledger.store.records import EmptyState
 from ledger.store.roles import recorder
-from ledger.store.sheets import (
-    SavedSheet,
-    amendments_of,
-    get_sheet,
-    list_sheets,
-    save_sheet,
-    sheet_type,
-    verify_sheet,
-)
+from ledger.store.typeinfo import vehicle_type_info
 from ledger.typedata import VehicleType
 from ledger.typedata.plan import (
     Plan,
@@ -58,6 +48,13 @@ from ledger.typedata.plan import (
     plan_vehicle,
     read_plan_file,
 )
+
+if TYPE_CHECKING:
+    # Saved sheets and amendments are imported where they are used: a check (the command run
+    # before every trip, ledger.services.check) prepares a sheet and needs neither.
+    from ledger.loadsheet import AmendmentCheck
+    from ledger.store.models import VehicleRow
+    from ledger.store.sheets import SavedSheet
 
 __all__ = [
     "QuickOptions",
@@ -243,6 +240,8 @@ def amend(engine: Engine, sheet_id: int, *, user: str, options: QuickOptions | N
 def show(engine: Engine, sheet_id: int) -> ShownSheet:
     """Saved sheet ``sheet_id`` as it was saved, with whether it verifies (its content hash,
     its seal and its vehicle's chain of sheets up to it)."""
+    from ledger.store.sheets import get_sheet, verify_sheet
+
     with unit_of_work(engine) as session:
         saved = get_sheet(session, sheet_id)
         ok = verify_sheet(session, sheet_id)
@@ -253,6 +252,8 @@ def show(engine: Engine, sheet_id: int) -> ShownSheet:
 def list_saved(engine: Engine, registration: str | None = None, *,
                limit: int = 50) -> list[SavedSheet]:
     """Saved sheets, newest first; of one vehicle if ``registration`` is given."""
+    from ledger.store.sheets import list_sheets
+
     with unit_of_work(engine) as session:
         return list_sheets(session, registration, limit=limit)
 
@@ -280,6 +281,8 @@ def _context(session: Session, raw: dict, source: str,
         info = vehicle_type_info(session, vehicle)
         rev_id, revision, vtype = info.revision_id, info.revision, info.vtype
     else:
+        from ledger.store.sheets import sheet_type
+
         rev_id, revision = sheet.type_revision_id, sheet.type_revision
         vtype = sheet_type(session, sheet)
     empty = current_empty(session, vehicle.registration)
@@ -336,6 +339,8 @@ def prepare_sheet(session: Session, raw: dict, *, source: str, preparer: str,
 def save_prepared(session: Session, prepared: PreparedSheet, *,
                   amends_id: int | None = None) -> SavedSheet:
     """Save a prepared sheet (immutable from then on)."""
+    from ledger.store.sheets import save_sheet
+
     return save_sheet(session, vehicle_id=prepared.vehicle_id,
                       type_revision_id=prepared.type_revision_id, entry_id=prepared.entry_id,
                       plan=prepared.plan_record(), document=prepared.document,
@@ -345,6 +350,8 @@ def save_prepared(session: Session, prepared: PreparedSheet, *,
 
 def _root(session: Session, sheet: SavedSheet) -> SavedSheet:
     """The first sheet of the amendment chain ``sheet`` belongs to."""
+    from ledger.store.sheets import get_sheet
+
     seen = {sheet.id}
     while sheet.amends_id is not None:
         sheet = get_sheet(session, sheet.amends_id)
@@ -374,6 +381,9 @@ def _beyond_tolerance(root: SavedSheet, vtype: VehicleType, check: AmendmentChec
 
 def _amendable(session: Session, sheet_id: int) -> SavedSheet:
     """Saved sheet ``sheet_id`` when it verifies and is the newest of its amendment chain."""
+    from ledger.store.evidence import sheet_problem
+    from ledger.store.sheets import amendments_of, get_sheet
+
     original = get_sheet(session, sheet_id)
     problem = sheet_problem(session, original.id)
     if problem:
@@ -409,6 +419,9 @@ def amend_sheet(session: Session, sheet_id: int, *, options: QuickOptions | None
         changed since; nothing changed; or the change is beyond the type's last-minute
         tolerance: a new sheet is needed.
     """
+    from ledger.loadsheet import compare_plans
+    from ledger.loadsheet.amend import amendment_doc
+
     preparer = recorder(session.connection(), preparer)
     original = _amendable(session, sheet_id)
     base_raw = original.plan.get("raw") or {}

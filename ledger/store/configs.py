@@ -191,7 +191,7 @@ def _type_row(session: Session, type_name: str) -> VehicleTypeRow:
 
 
 def _vtype_by_type_id(session: Session, type_id: int):
-    from ledger.store.entries import type_info
+    from ledger.store.typeinfo import type_info
 
     return type_info(session, type_id).vtype
 
@@ -225,7 +225,7 @@ def _items_in_si(items: Sequence[Mapping[str, Any]], units) -> list[dict]:
     """The items of a configuration as stored: names checked, each once; masses and arms in SI
     (a bare number takes the type's display ``units``); a removed item without a mass is left
     to the ledger (``from_ledger``)."""
-    from ledger.store.entries import _length, _mass, _text, parse_shape
+    from ledger.typedata.readings import parse_length, parse_mass, parse_shape, parse_text
 
     out_items = []
     seen = set()
@@ -234,7 +234,7 @@ def _items_in_si(items: Sequence[Mapping[str, Any]], units) -> list[dict]:
         if action not in ACTIONS:
             raise InputError(f"{item_field('items', j)}.action", action, "install or remove")
         flag = f"--{action}"
-        iname = _text(raw.get("name"), f"{flag} name", required=True)
+        iname = parse_text(raw.get("name"), f"{flag} name", required=True)
         if iname in seen:
             raise InputError(flag, iname, "each item once per configuration")
         seen.add(iname)
@@ -247,11 +247,11 @@ def _items_in_si(items: Sequence[Mapping[str, Any]], units) -> list[dict]:
         if raw.get("x") is None:
             raise InputError(flag, iname, "NAME=MASS@ARM: the arm is missing")
         item = {"name": iname, "action": action,
-                "mass_kg": _mass(raw["mass"], units, f"{flag} {iname} mass"),
-                "x_m": _length(raw["x"], units, f"{flag} {iname} arm"),
-                "y_m": 0.0 if raw.get("y") is None else _length(raw["y"], units,
+                "mass_kg": parse_mass(raw["mass"], units, f"{flag} {iname} mass"),
+                "x_m": parse_length(raw["x"], units, f"{flag} {iname} arm"),
+                "y_m": 0.0 if raw.get("y") is None else parse_length(raw["y"], units,
                                                                  f"{flag} {iname} lateral arm"),
-                "z_m": None if raw.get("z") is None else _length(raw["z"], units,
+                "z_m": None if raw.get("z") is None else parse_length(raw["z"], units,
                                                                   f"{flag} {iname} vertical arm"),
                 "from_ledger": False}
         shape = parse_shape(raw.get("shape"), units, field=f"{flag} {iname} shape")
@@ -313,9 +313,9 @@ def define_configuration(session: Session, name: str, *, actor: str,
     ConflictError
         The name exists already (without ``replace``) or is one of the type file's.
     """
-    from ledger.store.entries import _text
+    from ledger.typedata.readings import parse_text
 
-    cname = _text(name, "NAME", required=True, max_len=NAME_MAX)
+    cname = parse_text(name, "NAME", required=True, max_len=NAME_MAX)
     check_text("--by", actor, TEXT_MAX)
     if description is not None:
         check_text("--description", description)
@@ -437,7 +437,7 @@ def configuration_items(session: Session, registration: str, name: str, *,
     ConflictError
         A removed item that is not installed on the vehicle.
     """
-    from ledger.store.entries import installed_items
+    from ledger.store.entry_reads import installed_items
 
     cfg = get_configuration(session, name, registration=registration)
     if not any(i.from_ledger for i in cfg.items):
@@ -466,7 +466,7 @@ def configuration_items(session: Session, registration: str, name: str, *,
 
 def configuration_document(session: Session, view: ConfigurationView) -> dict:
     """``view.to_dict()`` plus the owner type's display units (``units``) for rendering."""
-    from ledger.store.entries import type_info
+    from ledger.store.typeinfo import type_info
 
     if view.source == "vehicle":
         type_id = session.scalar(select(VehicleRow.type_id)

@@ -118,10 +118,6 @@ __all__ = [
     "LB_KG",
 ]
 
-# The parsers under their former private names, for callers not yet moved to
-# ledger.typedata.readings (ledger.store.configs).
-_text, _mass, _length = parse_text, parse_mass, parse_length
-
 _E = LedgerEntryRow
 
 

@@ -65,13 +65,25 @@ def _tolerance(tol: float | None, P: np.ndarray) -> float:
     return tol
 
 
+def _distinct(values: np.ndarray) -> np.ndarray:
+    """The distinct values, sorted: ``np.unique`` for finite floats, without the import of
+    ``numpy.ma`` that ``np.unique`` makes on first use (a command checking one plan would pay
+    for it)."""
+    v = np.sort(values)
+    keep = np.empty(len(v), dtype=bool)
+    keep[:1] = True
+    np.not_equal(v[1:], v[:-1], out=keep[1:])
+    return v[keep]
+
+
 @lru_cache(maxsize=64)
 def _prepare_cached(data: bytes, shape: tuple, tol, field: str) -> PreparedEnvelope:
     raw = np.frombuffer(data, dtype=float).reshape(shape)
     P = validate_polygon(raw.tolist(), field=field)   # a list shows plainly in messages
     P.setflags(write=False)
     t = _tolerance(tol, P)
-    levels, inv = np.unique(P[:, 1], return_inverse=True)
+    levels = _distinct(P[:, 1])
+    inv = np.searchsorted(levels, P[:, 1])
     n = len(P)
     edges = []
     hb = set()
@@ -91,7 +103,7 @@ def _prepare_cached(data: bytes, shape: tuple, tol, field: str) -> PreparedEnvel
         P=P, tol=t, levels=tuple(float(v) for v in levels), edges=tuple(edges),
         hbands=tuple((y - t, y + t) for y in sorted(hb)),
         lbands=tuple((float(y) - t, float(y) + t) for y in levels),
-        xlevels=np.unique(P[:, 0]))
+        xlevels=_distinct(P[:, 0]))
 
 
 def prepare_envelope(polygon, tol=None, *, field: str = "envelope") -> PreparedEnvelope:
