@@ -35,7 +35,7 @@ PLACEHOLDERS = frozenset({
     "SEAT", "CLASS", "STATION", "TANK", "POINT", "LABEL", "ARM", "LAT", "VERT", "KIND", "KEY",
     "VALUE", "PHASE", "SET",
     # text, dates, files, places
-    "TEXT", "YYYY-MM-DD", "FILE", "KEYFILE", "FOLDER", "URL",
+    "TEXT", "YYYY-MM-DD", "FILE", "KEYFILE", "FOLDER", "URL", "PAPER",
 })
 
 #: Option names refused, each in favour of the name the commands use for that concept.

@@ -20,8 +20,8 @@ def record(ctx: typer.Context,
                                      help="The record as it stood on this date."),
            pdf: Path = typer.Option(None, "--pdf", metavar="FILE",
                                     help="Also write the record as a PDF to sign and file."),
-           paper: str = typer.Option("A4", "--paper", metavar="A4|Letter",
-                                     help="Page size of the PDF."),
+           paper: str = typer.Option("A4", "--paper", metavar="PAPER",
+                                     help="Page size of the PDF: A4 or Letter."),
            as_json: bool = common.JSON_OPTION) -> None:
     """The weight-and-balance record: weighings with their readings, every change with its
     reason, reference and signatory, the running empty mass, moment and CG, the equipment list.

@@ -216,11 +216,10 @@ def show(ctx: typer.Context,
 
     _check_outputs(pdf, svg)
     shown = sheets.show(common.state(ctx).engine(), sheet_id)
-    doc = shown.document
-    _outputs(doc, as_json, width, pdf, svg)
-    if not shown.verified:
+    if not shown.verified:  # nothing is shown from a document that does not verify
         common.fail(f"sheet {sheet_id} does not match its content hash; it was changed "
                     "outside wbledger", common.ExitCode.DATA)
+    _outputs(shown.document, as_json, width, pdf, svg)
 
 
 @sheet_app.command("list", epilog=examples(

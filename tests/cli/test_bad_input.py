@@ -665,3 +665,5 @@ def test_a_saved_sheet_changed_by_hand_exits_3(cli):
     res = cli("sheet", "show", "1")
     assert res.exit_code == 3, res.stderr
     assert res.stderr.count("\n") == 1 and res.stderr.startswith("Error: ")
+    # nothing, and so no verdict, is shown from a document that does not verify
+    assert "LIMITS" not in res.stdout and res.stdout.strip() == ""
