@@ -114,7 +114,7 @@ def test_a_registration_with_spaces_is_normalised_and_found_again(cli):
     cli("type", "import", str(P4))
     res = cli("vehicle", "add", "  NC   33-TR ", "--type", "KV-P4")
     assert (res.exit_code, res.stdout.strip()) == (0, (
-        "Added NC 33-TR (KV-P4). Record its first weighing with `wbledger weigh 'NC 33-TR'`."))
+        "Added NC 33-TR (KV-P4); next, its first weighing: `wbledger weigh 'NC 33-TR'`."))
     for given in ("NC 33-TR", "NC  33-TR", " NC 33-TR"):
         shown = cli("vehicle", "show", given, "--json")
         assert shown.exit_code == 0, shown.stderr
