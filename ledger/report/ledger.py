@@ -80,6 +80,13 @@ def _pct(value: float | None) -> str:
 
 # --- fleet and vehicle ----------------------------------------------------------------------
 
+def _not_verified(doc: dict) -> str:
+    """The mark of a vehicle whose evidence does not verify (``not_verified`` in its doc)."""
+    reg = doc["registration"]
+    return (f"{reg}: NOT VERIFIED: {doc['not_verified']}. No sheet or report is built on it; "
+            f"see `wbledger verify {reg}`")
+
+
 def render_fleet(rows: list[dict]) -> None:
     """The fleet list: one line per vehicle (``wbledger vehicle list``)."""
     rows = clean(rows)
@@ -100,7 +107,7 @@ def render_fleet(rows: list[dict]) -> None:
     for r in rows:
         u = r["units"]
         e = r["empty"]
-        flag = " !" if r["warnings"] else ""
+        flag = " !" if r["warnings"] or r.get("not_verified") else ""
         if e is None:
             table.add_row(r["registration"] + flag, r["type"], "-", "-", "-", "never",
                           str(r["entries"]))
@@ -109,6 +116,8 @@ def render_fleet(rows: list[dict]) -> None:
                           fmt_mass(e["empty_mass_kg"], u["mass"], scale=e["empty_mass_kg"]),
                           fmt_length(e["cg_x_m"], u["length"]), _pct(e["percent_mac"]),
                           r["last_weighed"], str(r["entries"]))
+        if r.get("not_verified"):
+            warnings.append(_not_verified(r))
         warnings += [f"{r['registration']}: {w['message']}" for w in r["warnings"]]
     con.print(table)
     for w in warnings:
@@ -122,6 +131,8 @@ def render_vehicle(d: dict) -> None:
     u = d["units"]
     con.print(f"{d['registration']}  type {d['type']} rev {d['type_revision']} "
               f"({d['type_title']})", overflow="fold")
+    if d.get("not_verified"):
+        con.print(_not_verified(d), overflow="fold")
     if d.get("serial"):
         con.print(f"Serial: {d['serial']}")
     if d.get("note"):
@@ -244,6 +255,8 @@ def render_history(doc: dict) -> None:
     if doc["as_of"]:
         title += f" as of {doc['as_of']}"
     con.print(title, overflow="fold")
+    if doc.get("not_verified"):
+        con.print(_not_verified(doc), overflow="fold")
     if not doc["entries"]:
         for w in doc["warnings"]:
             con.print(w["message"].capitalize() + ".")

@@ -10,6 +10,7 @@ from __future__ import annotations
 from typing import Any
 
 from sqlalchemy.engine import Engine
+from sqlalchemy.orm import Session
 
 from ledger.services.database import unit_of_work
 from ledger.store.catalog import add_vehicle as _add_vehicle
@@ -28,12 +29,27 @@ def add_vehicle(engine: Engine, registration: str, type_name: str, *,
 
 
 def fleet(engine: Engine) -> list[dict[str, Any]]:
-    """Every vehicle: type, current empty mass and CG, last weighing, warnings."""
+    """Every vehicle: type, current empty mass and CG, last weighing, warnings, and
+    ``not_verified``: why its evidence does not verify (None when it does)."""
+    from ledger.store.evidence import unverified_vehicles
+
     with unit_of_work(engine) as session:
-        return fleet_view(session)
+        rows = fleet_view(session)
+        problems = unverified_vehicles(session)
+    return [{**r, "not_verified": problems.get(r["registration"])} for r in rows]
 
 
 def vehicle(engine: Engine, registration: str) -> dict[str, Any]:
-    """One vehicle: type, current empty state, last weighing, items, recent entries."""
+    """One vehicle: type, current empty state, last weighing, items, recent entries, and
+    ``not_verified`` as in :func:`fleet`."""
     with unit_of_work(engine) as session:
-        return vehicle_view(session, registration)
+        return marked(session, vehicle_view(session, registration))
+
+
+def marked(session: Session, doc: dict[str, Any]) -> dict[str, Any]:
+    """``doc`` (of one vehicle) with ``not_verified``: why its evidence does not verify, or
+    None (issue 13 item 5: a ledger that ``sheet`` refuses does not look normal elsewhere)."""
+    from ledger.store.evidence import unverified_vehicles
+
+    reg = doc["registration"]
+    return {**doc, "not_verified": unverified_vehicles(session, reg).get(reg)}

@@ -24,8 +24,10 @@ __all__ = ["FORMATS", "EXPORT_UNITS", "ImportSummary", "running_record", "export
 def running_record(engine: Engine, registration: str, *,
                    as_of: str | None = None) -> dict[str, Any]:
     """The running record of ``registration`` (as it stood on ``as_of`` if given)."""
+    from ledger.services.fleet import marked
+
     with unit_of_work(engine) as session:
-        return history_view(session, registration, as_of=as_of)
+        return marked(session, history_view(session, registration, as_of=as_of))
 
 
 #: What ``export --units`` accepts: the exact SI columns (the default, the only form that

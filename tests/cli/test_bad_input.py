@@ -667,3 +667,28 @@ def test_a_saved_sheet_changed_by_hand_exits_3(cli):
     assert res.stderr.count("\n") == 1 and res.stderr.startswith("Error: ")
     # nothing, and so no verdict, is shown from a document that does not verify
     assert "LIMITS" not in res.stdout and res.stdout.strip() == ""
+
+
+def test_a_vehicle_that_does_not_verify_is_marked_where_it_is_shown(cli):
+    """Issue 13 item 5: `sheet` refuses a ledger that does not verify, but `vehicle list`,
+    `vehicle show` and `history` showed it as normal. They still show it (the record is what
+    there is to look at), marked NOT VERIFIED with the problem and what to run."""
+    for args in (("vehicle", "list", "--json"), ("vehicle", "show", "KVA-101", "--json"),
+                 ("history", "KVA-101", "--json")):
+        res = cli(*args)
+        doc = json.loads(res.stdout)
+        doc = doc[0] if isinstance(doc, list) else doc
+        assert (res.exit_code, doc["not_verified"]) == (0, None), args
+    _edit_entry(cli, 2, "item_mass_kg = item_mass_kg + 1")
+    problem = ("entry 2: its content does not match its hash (a field was changed after it was "
+               "written)")
+    mark = (f"KVA-101: NOT VERIFIED: {problem}. No sheet or report is built on it; see "
+            "`wbledger verify KVA-101`")
+    for args in (("vehicle", "list"), ("vehicle", "show", "KVA-101"), ("history", "KVA-101")):
+        res = cli(*args, "--json")
+        doc = json.loads(res.stdout)
+        doc = doc[0] if isinstance(doc, list) else doc
+        assert (res.exit_code, doc["not_verified"]) == (0, problem), args
+        res = cli(*args)
+        assert res.exit_code == 0, res.stderr
+        assert mark in " ".join(res.stdout.split()), (args, res.stdout)

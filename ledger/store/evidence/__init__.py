@@ -32,6 +32,7 @@ from ledger.store.evidence.fleet import (
     TypeEvidence,
     VehicleEvidence,
     parse_hash,
+    unverified_vehicles,
     verify_fleet,
 )
 from ledger.store.evidence.revisions import checked_type
@@ -46,6 +47,7 @@ __all__ = [
     "check_configuration_chain",
     "require_vehicle",
     "sheet_problem",
+    "unverified_vehicles",
     "verify_fleet",
     "parse_hash",
 ]

@@ -188,3 +188,26 @@ def verify_fleet(session: Session, registration: str | None = None, *,
     found = tuple((h, seen is not None and h in seen) for h in wanted)
     return EvidenceReport(guards_problem(session), tuple(types), tuple(out), found,
                           tuple(other))
+
+
+def unverified_vehicles(session: Session, registration: str | None = None) -> dict[str, str]:
+    """Each vehicle (or the one named) whose evidence does not verify, with its first problem.
+
+    What ``vehicle list``, ``vehicle show`` and ``history`` mark, so that a ledger that
+    ``sheet`` refuses does not look normal elsewhere: the vehicle's own record and chain, or
+    the chain of its type's revisions.
+    """
+    report = verify_fleet(session, registration)
+    bad_types = {t.name: t.problem for t in report.types if not t.ok}
+    type_of = dict(session.execute(
+        select(VehicleRow.registration, VehicleTypeRow.name)
+        .join(VehicleTypeRow, VehicleTypeRow.id == VehicleRow.type_id)).all())
+    out = {}
+    for v in report.vehicles:
+        problem = v.problem or (f"type {type_of[v.registration]}: "
+                                f"{bad_types[type_of[v.registration]]}"
+                                if type_of.get(v.registration) in bad_types else None)
+        if problem:
+            out[v.registration] = problem
+    return out
+
