@@ -37,6 +37,7 @@ from ledger.report.pdf_layout import (
     Measure,
     draw_page,
     figure_line,
+    signature_block,
 )
 from ledger.report.sheet_charts import ChartData, mass_lines_legend
 from ledger.report.sheet_format import DASH
@@ -198,24 +199,8 @@ def _signatures(lay: Layout, view: SheetView) -> None:
     if view.is_draft:
         lay.box(_draft_lines(view), BAD, None, lw=1.6)
         return
-    roles = view.signature_roles
-    block = 0.4 + 0.55 * len(roles)
-    lay.need(block)
-    lay.section("Signatures", keep=block)
-    lay.paragraph("Sign only after checking this sheet against the approved data.", 7.0,
-                  color=GREY, style="italic")
-    lay.y += 0.1
-    name_x0 = lay.left + 1.35
-    date_x0 = lay.right - 1.5
-    for role in roles:
-        lay.y += 0.38
-        lay.text(lay.left, lay.y - 0.03, role, 9.0, "bold")
-        lay.rule(lay.y, name_x0, date_x0 - 0.65, lw=0.7, color=INK)
-        lay.text(date_x0 - 0.5, lay.y - 0.03, "Date", 9.0, "bold")
-        lay.rule(lay.y, date_x0, lay.right, lw=0.7, color=INK)
-        lay.text(name_x0, lay.y + 0.12, "name and signature", 6.5, color=GREY)
-        lay.y += 0.15
-    lay.y += 0.1
+    signature_block(lay, view.signature_roles,
+                    "Sign only after checking this sheet against the approved data.")
 
 
 def _footer_lines(view: SheetView) -> str:
