@@ -1,4 +1,4 @@
-"""Run the README's session transcripts again and write their output back (or check it).
+"""Run the README's example sessions again and write their output back (or check it).
 
 The README shows real sessions: each fenced block right after a ``<!-- session -->`` line is a
 list of shell commands (lines starting ``$ ``; a line ending in a backslash goes on) with their
