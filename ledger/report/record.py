@@ -10,6 +10,7 @@ shown as text, never as markup.
 from __future__ import annotations
 
 from ledger.caution import CAUTION_SHORT
+from ledger.report.safe_text import plain, text_console
 from ledger.report.sheet_tables import TableData
 from ledger.units import display_decimals
 
@@ -165,7 +166,7 @@ def _print_table(con, t: TableData) -> None:
     from rich.text import Text
 
     con.print()
-    con.print(Text(t.title, style="bold"))
+    con.print(Text(plain(t.title), style="bold"))
     table = Table(box=box.SIMPLE_HEAD, pad_edge=False, padding=(0, 1, 0, 0), show_edge=False)
     # The one column that may fold: the running record's entry, else the first (a name).
     fold = 2 if t.headers[:3] == ["#", "Date", "Entry"] else 0
@@ -175,25 +176,24 @@ def _print_table(con, t: TableData) -> None:
                          no_wrap=not wide, overflow="fold" if wide else "ellipsis",
                          min_width=12 if wide else None)
     for j, row in enumerate(t.rows):
-        table.add_row(*(Text(c) for c in row), style="bold" if j in t.bold_rows else None)
+        table.add_row(*(Text(plain(c)) for c in row), style="bold" if j in t.bold_rows else None)
     con.print(table)
     for note in t.notes:
-        con.print(Text(note), overflow="fold")
+        con.print(Text(plain(note)), overflow="fold")
 
 
 def render_record(rec) -> None:
     """The record on the terminal: heading, tables, current state, signature lines, caution."""
-    from rich.console import Console
     from rich.text import Text
 
-    con = Console(highlight=False, soft_wrap=False)
-    con.print(Text(f"Weight and balance record: {rec.registration}", style="bold"))
+    con = text_console()  # stored text (names, reasons, signatories) is shown as text
+    con.print(Text(f"Weight and balance record: {plain(rec.registration)}", style="bold"))
     for label, value in record_heading(rec):
-        con.print(Text(f"{label}: {value}"), overflow="fold")
+        con.print(Text(plain(f"{label}: {value}")), overflow="fold")
     for t in record_tables(rec):
         _print_table(con, t)
     con.print()
-    con.print(Text(current_line(rec)), overflow="fold")
+    con.print(Text(plain(current_line(rec))), overflow="fold")
     con.print()
     for role in SIGNATURE_ROLES:
         con.print(f"{role + ':':<17}{'_' * 34}  Date: {'_' * 12}")

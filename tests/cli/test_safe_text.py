@@ -67,6 +67,13 @@ def test_history_prints_names_reasons_and_signatories_as_text(run):
     assert "ref WO\\x9b2J-7" in out
 
 
+def test_the_record_prints_names_reasons_and_signatories_as_text(run):
+    out = run("record", "KV-101")
+    _no_control(out)
+    assert "lamp\\x1b[31m red" in out
+    assert "A. Signer[/]\\x1b]0;title\\x07" in out
+
+
 def test_the_recorded_entry_and_the_fleet_print_text(run):
     out = run("install", "KV-101", "[u]rack[/u]\x1b[1m", "--mass", "3 lb", "--arm", "90",
               "--date", "2025-03-01", "--reason", "fit")
