@@ -24,7 +24,8 @@ def test_the_tool_finds_commands_with_their_continuation_lines():
     assert _tool().commands(block) == ['$ a --x 1 \\\n    --y 2', '$ b "q; \\\n    r"']
 
 
-@pytest.mark.skipif(shutil.which("sqlite3") is None, reason="the example session runs the sqlite3 shell")
+@pytest.mark.skipif(shutil.which("sqlite3") is None,
+                    reason="the example session runs the sqlite3 shell")
 def test_readme_sessions_are_current():
     tool = _tool()
     text = tool.README.read_text(encoding="utf-8")
