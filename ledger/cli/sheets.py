@@ -219,6 +219,8 @@ def show(ctx: typer.Context,
     if not shown.verified:  # nothing is shown from a document that does not verify
         common.fail(f"sheet {sheet_id} does not match its content hash; it was changed "
                     "outside wbledger", common.ExitCode.DATA)
+    if shown.ledger_problem:  # nor from a sheet whose vehicle's ledger no longer verifies
+        common.fail(shown.ledger_problem, common.ExitCode.DATA)
     _outputs(shown.document, as_json, width, pdf, svg)
 
 

@@ -188,6 +188,7 @@ class ShownSheet:
 
     saved: SavedSheet
     verified: bool
+    ledger_problem: str | None = None   # the vehicle's evidence does not verify: why
 
     @property
     def document(self) -> Document:
@@ -239,14 +240,25 @@ def amend(engine: Engine, sheet_id: int, *, user: str, options: QuickOptions | N
 
 def show(engine: Engine, sheet_id: int) -> ShownSheet:
     """Saved sheet ``sheet_id`` as it was saved, with whether it verifies (its content hash,
-    its seal and its vehicle's chain of sheets up to it)."""
+    its seal and its vehicle's chain of sheets up to it).
+
+    ``ledger_problem`` says why the vehicle's evidence (its ledger, the entry the sheet was
+    built on) does not verify, if it does not: the caller shows no verdict then.
+    """
+    from ledger.store.catalog import get_vehicle
+    from ledger.store.evidence import require_vehicle
     from ledger.store.sheets import get_sheet, verify_sheet
 
     with unit_of_work(engine) as session:
         saved = get_sheet(session, sheet_id)
         ok = verify_sheet(session, sheet_id)
+        try:
+            require_vehicle(session, get_vehicle(session, saved.registration))
+            ledger_problem = None
+        except ChainError as exc:
+            ledger_problem = str(exc)
     saved.document["sheet"]["verified"] = ok
-    return ShownSheet(saved, ok)
+    return ShownSheet(saved, ok, ledger_problem)
 
 
 def list_saved(engine: Engine, registration: str | None = None, *,

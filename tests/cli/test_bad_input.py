@@ -692,3 +692,16 @@ def test_a_vehicle_that_does_not_verify_is_marked_where_it_is_shown(cli):
         res = cli(*args)
         assert res.exit_code == 0, res.stderr
         assert mark in " ".join(res.stdout.split()), (args, res.stdout)
+
+
+def test_a_saved_sheet_on_a_ledger_changed_by_hand_is_not_shown(cli):
+    """A saved sheet verified by its own hash, but the ledger entry it was built on was changed
+    afterwards by direct SQL: `sheet show` printed its IN LIMITS verdict with exit 0. It now
+    refuses (exit 3) and prints nothing, as `sheet prepare` does on that ledger."""
+    shown = cli("sheet", "show", "1", "--json")
+    assert shown.exit_code in (0, 1), shown.stderr
+    _edit_entry(cli, 2, "empty_mx_kgm = empty_mx_kgm + 1")
+    res = cli("sheet", "show", "1")
+    assert (res.exit_code, res.stdout) == (3, ""), res.stderr
+    assert res.stderr.startswith("Error: the ledger of KVA-101 does not verify")
+    assert res.stderr.count("\n") == 1
