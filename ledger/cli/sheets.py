@@ -235,8 +235,7 @@ def list_(ctx: typer.Context,
     """List saved sheets, newest first."""
     from ledger.services import sheets
 
-    saved = sheets.list_saved(common.state(ctx).engine(), registration, limit=limit)
-    rows = [s.summary() for s in saved]
+    rows = sheets.summaries(common.state(ctx).engine(), registration, limit=limit)
 
     def render(rows):
         from ledger.report.safe_text import clean
@@ -245,7 +244,8 @@ def list_(ctx: typer.Context,
             typer.echo("No saved sheets.")
         for r in clean(rows):
             amends = f", amends {r['amends']}" if r["amends"] else ""
-            verdict = "in limits" if r["verdict"] == "in_limits" else "OUT OF LIMITS"
+            verdict = ("NOT VERIFIED" if not r["verified"]
+                       else "in limits" if r["verdict"] == "in_limits" else "OUT OF LIMITS")
             typer.echo(f"{r['id']:>5}  {r['created_at'][:16]}  {r['registration']:<10} "
                        f"{verdict:<13} by {r['preparer']}{amends}")
 

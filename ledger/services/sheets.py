@@ -70,6 +70,7 @@ __all__ = [
     "amend",
     "show",
     "list_saved",
+    "summaries",
     "prepare_sheet",
     "save_prepared",
     "amend_sheet",
@@ -268,6 +269,18 @@ def list_saved(engine: Engine, registration: str | None = None, *,
 
     with unit_of_work(engine) as session:
         return list_sheets(session, registration, limit=limit)
+
+
+def summaries(engine: Engine, registration: str | None = None, *,
+              limit: int = 50) -> list[dict[str, Any]]:
+    """What ``sheet list`` shows: :meth:`SavedSheet.summary` of each saved sheet, newest first,
+    with ``verified`` (its content hash, seal and chain of sheets), so that a sheet changed
+    behind wbledger's back is never listed with its stored verdict as if it held."""
+    from ledger.store.sheets import list_sheets, verify_sheet
+
+    with unit_of_work(engine) as session:
+        return [{**s.summary(), "verified": verify_sheet(session, s.id)}
+                for s in list_sheets(session, registration, limit=limit)]
 
 
 # --- the same work inside a caller's unit of work -------------------------------------------------

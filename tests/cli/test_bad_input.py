@@ -547,6 +547,19 @@ def test_max_size_raises_the_limit(cli, files):
     assert dump(cli.db_url) == before
 
 
+def _edit_sheet(cli, assignment: str, sheet_id: int = 1) -> None:
+    """Change saved sheet ``sheet_id`` by direct SQL, behind wbledger's back."""
+    from ledger.store.db import make_engine
+
+    eng = make_engine(cli.db_url)
+    try:
+        with eng.begin() as conn:
+            guards.drop(conn, ["loading_sheets"])
+            conn.execute(text(f"UPDATE loading_sheets SET {assignment} WHERE id = {sheet_id}"))
+    finally:
+        eng.dispose()
+
+
 def _edit_entry(cli, seq: int, assignment: str, registration: str = "KVA-101") -> None:
     """Change entry ``seq`` of a vehicle by direct SQL, behind the ledger's back."""
     from ledger.store.db import make_engine
@@ -653,15 +666,7 @@ def test_an_impossible_date_is_reported_in_one_line(cli):
 def test_a_saved_sheet_changed_by_hand_exits_3(cli):
     """Issue 13 item 8: stored data that does not verify is exit 3 (it was 1, the code of "out
     of limits"), whichever check finds it."""
-    from ledger.store.db import make_engine
-
-    eng = make_engine(cli.db_url)
-    try:
-        with eng.begin() as conn:
-            guards.drop(conn, ["loading_sheets"])
-            conn.execute(text("UPDATE loading_sheets SET preparer = 'someone else' WHERE id = 1"))
-    finally:
-        eng.dispose()
+    _edit_sheet(cli, "preparer = 'someone else'")
     res = cli("sheet", "show", "1")
     assert res.exit_code == 3, res.stderr
     assert res.stderr.count("\n") == 1 and res.stderr.startswith("Error: ")
@@ -705,3 +710,16 @@ def test_a_saved_sheet_on_a_ledger_changed_by_hand_is_not_shown(cli):
     assert (res.exit_code, res.stdout) == (3, ""), res.stderr
     assert res.stderr.startswith("Error: the ledger of KVA-101 does not verify")
     assert res.stderr.count("\n") == 1
+
+
+def test_a_saved_sheet_changed_by_hand_is_listed_as_not_verified(cli):
+    """`sheet list` printed a saved sheet's stored verdict even when its row had been changed
+    by direct SQL (here its preparer): it now says NOT VERIFIED there, and `verified` in JSON."""
+    listed = cli("sheet", "list", "--json")
+    assert [r["verified"] for r in json.loads(listed.stdout)] == [True]
+    _edit_sheet(cli, "preparer = 'someone else'")
+    listed = cli("sheet", "list", "--json")
+    assert [r["verified"] for r in json.loads(listed.stdout)] == [False]
+    res = cli("sheet", "list")
+    assert res.exit_code == 0, res.stderr
+    assert " NOT VERIFIED " in res.stdout and "limits" not in res.stdout.lower()
