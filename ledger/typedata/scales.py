@@ -196,6 +196,9 @@ def _as_weighed_height(level, pitched: PitchedWeighing, vt, points: Mapping[str,
     units = vt.units
     gp = _gross(pitched.readings, points, units, type_name, listing, "--pitched-reading")
     deg = parse_amount(pitched.pitch, "angle", "deg", "--pitch")
+    if deg < 0:  # the core takes either way; the command is a nose-up weighing
+        raise InputError("--pitch", pitched.pitch, "a nose-up pitch, greater than 0",
+                         hint="Give the angle of the nose-up attitude as a positive angle")
     plane = parse_length(pitched.points_z, units, "--points-z")
     tilted = empty_weight_from_scales(
         [gp[n] for n in names], [tare.get(n, 0.0) for n in names],

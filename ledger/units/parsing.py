@@ -35,7 +35,8 @@ def _split(value: object, dimension: str, field: str) -> tuple[float, str | None
     if isinstance(value, bool) or not isinstance(value, (int, float, str)):
         raise UnitError(field, _shown(value), f"expected a {word}: a number, or a string "
                         f"such as '{EXAMPLES[dimension]}'")
-    finite = f"not a finite number; a {word} must be a finite number"
+    finite = (f"not a finite number; {'an' if word[:1] in 'aeiou' else 'a'} {word} must be a "
+              "finite number")
     if isinstance(value, (int, float)):
         number = float(value)
         if not math.isfinite(number):

@@ -480,6 +480,12 @@ CASES = [
       "--pitch", "1 deg", "--points-z", "10 in", *R],
      "Error: --pitch = 1: a pitch of 2° to 60°. Pitch the vehicle further; a small angle "
      "gives a CG shift lost in the scale resolution", 2),
+    # a negative (nose-down) pitch was accepted by the nose-up weighing and gave a height
+    (["weigh", "KVA-101", *P4_READINGS, "--pitched-reading", "nose=470 lb",
+      "--pitched-reading", "left main=576 lb", "--pitched-reading", "right main=582.5 lb",
+      "--pitch", "-5 deg", "--points-z", "10 in", *R],
+     "Error: --pitch = '-5 deg': a nose-up pitch, greater than 0. Give the angle of the nose-up "
+     "attitude as a positive angle", 2),
     # issue 13 item 13: one name per concept (inertia's --config is --configuration, as in
     # check and sheet), and options a command cannot do without are declared required.
     (["inertia", "KVA-101", "--config", "x"], "Error: No such option: --config (Possible "
